@@ -1,0 +1,60 @@
+// The grid in the compactified angle theta = arccot(w) in [0, pi] and its difference stencils.
+#pragma once
+
+#include <array>
+#include <functional>
+#include <span>
+#include <vector>
+
+namespace edgelaw {
+
+// Weights for one node's derivative: value ~ sum_k weight[k] * u[first + k].
+struct Stencil {
+  int first = 0;
+  int size = 0;
+  std::array<double, 8> weight{};
+};
+
+// Interpolation weights at an arbitrary angle, for the value and the first two derivatives.
+struct PointWeights {
+  int first = 0;
+  int size = 0;
+  std::array<double, 8> value{}, slope{}, curvature{};
+};
+
+// Nodes 0..N with theta_0 = 0 (w = +inf, where the drift is +1 and the diffusion vanishes, so no
+// boundary condition is imposed) and theta_N = pi (explosion: a Dirichlet node). Node i sits at
+// theta = map(i / N); the map must be smooth, increasing, map(0) = 0 and map(1) = pi.
+class AngleGrid {
+ public:
+  // Uniform grid with the given number of intervals (>= 8).
+  explicit AngleGrid(int intervals);
+  AngleGrid(int intervals, const std::function<double(double)>& map);
+  // Nodes placed so that each interval holds the same integral of the density (nodes per
+  // radian, up to a constant factor), which must be positive and continuous on [0, pi].
+  static AngleGrid with_density(int intervals, const std::function<double(double)>& density);
+
+  int intervals() const { return static_cast<int>(theta_.size()) - 1; }
+  double theta(int i) const { return theta_[i]; }
+  std::span<const double> nodes() const { return theta_; }
+
+  // Fourth-order first-derivative stencils biased one node toward the upwind side: "plus" takes
+  // its extra node from larger theta (use where the drift a > 0), "minus" from smaller theta.
+  // Stencils are shifted inward at the ends; they may touch the Dirichlet node N.
+  const Stencil& first_plus(int i) const { return first_plus_[i]; }
+  const Stencil& first_minus(int i) const { return first_minus_[i]; }
+  // Fourth-order second-derivative stencil (central, six-point shifted near the ends).
+  const Stencil& second(int i) const { return second_[i]; }
+
+  // Degree-7 interpolation through the 8 nodes nearest to theta (theta in [0, pi]).
+  PointWeights point_weights(double theta) const;
+
+ private:
+  void build_stencils();
+  Stencil make(int i, int first, int size, int order) const;
+
+  std::vector<double> theta_;
+  std::vector<Stencil> first_plus_, first_minus_, second_;
+};
+
+}  // namespace edgelaw

@@ -1,0 +1,76 @@
+// Range and grid choices from the tail asymptotics of the law (design notes, section 1).
+#include "solver/plan.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdlib>
+#include <numbers>
+
+namespace edgelaw {
+
+namespace {
+constexpr double kAiryZero = -2.338107410459767;  // a_1, first zero of Ai (DLMF 9.9.1, Table 9.9.1)
+// Tail depth in e-folds: e^-40 ~ 4e-18 is below anything a double cdf or a moment can see.
+constexpr double kTailDepth = 40.0;
+}  // namespace
+
+double Plan::grid_density(double theta) const {
+  // For x > 0 the cdf jumps from 1 to 0 across the unstable branch p = -sqrt(x), i.e.
+  // psi = pi - theta = arctan(1/sqrt(x)), over a width sigma / (2 x^{1/4}) in p (the escape law
+  // of the linearised unstable Ornstein-Uhlenbeck process, sigma = 2/sqrt(beta)), which is
+  // sigma sin^2(psi) / (2 sqrt(cot psi)) in theta. Put nodes in inverse proportion to it.
+  const double sigma = 2.0 / std::sqrt(beta);
+  auto inverse_width = [sigma](double psi) {
+    const double s = std::sin(psi);
+    return 2.0 * std::sqrt(std::cos(psi) / s) / (sigma * s * s);
+  };
+  const double psi = std::numbers::pi - theta;
+  const double psi_last = std::atan(1.0 / std::sqrt(front_until));
+  const double reference = inverse_width(psi_last);
+  double share = 0.0;
+  if (psi >= std::numbers::pi / 2)
+    share = 0.0;
+  else if (psi >= psi_last)
+    share = inverse_width(psi) / reference;
+  else  // beyond the last front that matters: relax smoothly back to uniform
+    share = std::exp(-std::pow(3.0 * (psi_last - psi) / psi_last, 2));
+  return 1.0 + front_weight * share;
+}
+
+double Plan::moment_centre(double w) const {
+  // Supercritical laws sit near w^2 (design notes, section 1); others near the TW scale.
+  if (w < 0) return w * w;
+  return kAiryZero * std::pow(2.0 / beta, 1.0 / 6.0) * 0.75;
+}
+
+Plan make_plan(const LawRequest& req, const SolverOptions& options) {
+  Plan plan;
+  plan.beta = req.beta;
+  const double beta = req.beta;
+  const double x_top = std::max(req.x.back(), 0.0);
+  // Left tail: log F ~ -(beta/24)|x|^3; start it from the beta -> inf location a_1.
+  const double left = kAiryZero - std::cbrt(24.0 * kTailDepth / beta);
+  plan.x_low = options.moments ? std::min(req.x.front(), left) : req.x.front();
+  // Right end: spiked rows have 1 - F ~ exp(-(beta/3) x^{3/2}). The terminal data is exact up to
+  // that order, so its influence on the survival at the largest requested x is damped by
+  // exp(-(beta/3)(x_high^{3/2} - x_top^{3/2})); ask for half the tail depth there and the full
+  // depth in absolute terms.
+  const double need_relative = std::pow(std::pow(x_top, 1.5) + 1.5 * kTailDepth / beta, 2.0 / 3.0);
+  const double need_absolute = std::pow(3.0 * kTailDepth / beta, 2.0 / 3.0);
+  plan.x_high = std::max({need_relative, need_absolute, req.x.back() + 1.0});
+  if (options.base_intervals > 0) {
+    plan.base_intervals = options.base_intervals;
+  } else {
+    // Front widths in theta shrink like beta^{-1/2}; the prototype's 400 intervals suit beta = 2.
+    plan.base_intervals = static_cast<int>(std::ceil(400.0 * std::max(1.0, std::sqrt(beta / 2.0)) / 8.0) * 8);
+  }
+  plan.burn_in_until = req.x.back() + 1.0;
+  plan.front_until = x_top + 1.0;
+  if (const char* e = std::getenv("EDGELAW_FRONT")) plan.front_weight = std::atof(e);
+  if (const char* e = std::getenv("EDGELAW_BULK")) plan.bulk_tolerance = std::atof(e);
+  if (const char* e = std::getenv("EDGELAW_TAIL")) plan.tail_relative = std::atof(e);
+  if (const char* e = std::getenv("EDGELAW_LOOSE")) plan.loose_factor = std::atof(e);
+  return plan;
+}
+
+}  // namespace edgelaw
