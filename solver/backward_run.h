@@ -32,10 +32,13 @@ struct BackwardProblem {
   double loose_factor = 1.0;
 };
 
-// The dense-output state at any x of the current step: fills the full nodal vector (N+1 values).
-using DenseOutput = std::function<void(double x, double* full)>;
-// Called once per output point (outputs in decreasing order) with the full nodal vector.
-using OutputObserver = std::function<void(int index, double x, const double* full)>;
+// The dense-output state at any x of the current step: fills the full nodal vector (N+1 values)
+// and, if slope is not null, its x-derivative (the derivative of CVODE's interpolating
+// polynomial, which unlike the right-hand side at the interpolated state does not amplify the
+// interpolation error of stiff components).
+using DenseOutput = std::function<void(double x, double* full, double* slope)>;
+// Called once per output point (outputs in decreasing order) with the nodal vector and slope.
+using OutputObserver = std::function<void(int index, double x, const double* full, const double* slope)>;
 // Called after every internal step that covered [x_new, x_old].
 using StepObserver = std::function<void(double x_new, double x_old, const DenseOutput& dense)>;
 

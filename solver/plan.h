@@ -9,8 +9,9 @@ struct Plan {
   double x_low = 0, x_high = 0;   // integration from x_high (terminal data) down to x_low
   int base_intervals = 0;         // theta intervals on the coarsest level
   // CVODE error control (see BackwardProblem): bulk absolute, tail relative, floor.
-  double bulk_tolerance = 1e-12;
-  double tail_relative = 1e-9;
+  // On the coarsest level; each finer level divides them by 16.
+  double bulk_tolerance = 1e-10;
+  double tail_relative = 1e-6;
   double floor = 1e-30;
   double burn_in_until = 0;       // above: outputs not needed, errors damped
   double loose_factor = 100;  // CVODE absolute tolerance: values below do not matter

@@ -17,8 +17,6 @@
 #include <cmath>
 #include <numbers>
 #include <sstream>
-#include <cstdio>
-#include <cstdlib>
 
 #include "grids/angle_grid.h"
 #include "solver/backward_run.h"
@@ -70,8 +68,12 @@ Moments central_moments(const std::array<double, 5>& m, double centre) {
   return {centre + m1, var, mu3 / std::pow(var, 1.5), mu4 / (var * var) - 3.0};
 }
 
-LevelResult solve_level(const LawRequest& req, const Plan& plan, int intervals, const std::vector<double>& centres,
+LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, const std::vector<double>& centres,
                         bool want_moments) {
+  const int intervals = plan.base_intervals << level;
+  // Time tolerances shrink with h^4 (a factor 16 a level), so the integrator's error follows
+  // the spatial error and the level differences measure both.
+  const double shrink = std::pow(16.0, -level);
   const AngleGrid grid = AngleGrid::with_density(intervals, [&plan](double t) { return plan.grid_density(t); });
   const KolmogorovOperator op(req.beta, grid);
   const int n = op.unknowns();
@@ -97,18 +99,11 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int intervals, 
 
   std::vector<std::array<double, 5>> sums(rows, std::array<double, 5>{});
   std::vector<double> full(n + 1), slope(n + 1, 0.0);
-  // The density is the x-derivative of the interpolated cdf: the interpolated nodal right-hand
-  // side, so that its integral over x equals the cdf increment (up to the time error).
-  auto nodal_slope = [&](double x, const double* nodal) {
-    op.rhs(x, nodal, 0.0, slope.data());
-    slope[n] = 0.0;
-  };
   const StepObserver accumulate = [&](double x_new, double x_old, const DenseOutput& dense) {
     const double half = 0.5 * (x_old - x_new), mid = 0.5 * (x_old + x_new);
     for (int q = 0; q < kQuadratureNodes; ++q) {
       const double x = mid + half * kGaussNodes[q], wq = half * kGaussWeights[q];
-      dense(x, full.data());
-      nodal_slope(x, full.data());
+      dense(x, full.data(), slope.data());
       for (int r = 0; r < rows; ++r) {
         const double f = interpolate(weights[r], slope.data()) * wq;
         const double d = x - centres[r];
@@ -128,20 +123,20 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int intervals, 
     problem.boundary = survival ? 1.0 : 0.0;
     problem.x_start = plan.x_high;
     problem.x_end = plan.x_low;
-    problem.bulk_tolerance = plan.bulk_tolerance;
-    problem.tail_relative = plan.tail_relative;
+    problem.bulk_tolerance = plan.bulk_tolerance * shrink;
+    problem.tail_relative = plan.tail_relative * shrink;
     problem.floor = plan.floor;
     problem.burn_in_until = plan.burn_in_until;
     problem.loose_factor = plan.loose_factor;
     problem.initial.resize(n);
     for (int i = 0; i < n; ++i) problem.initial[i] = terminal_cdf(req.beta, plan.x_high, grid.theta(i), survival);
     RowMatrix& table = survival ? out.survival : out.cdf;
-    const OutputObserver record = [&](int index, double x, const double* nodal) {
+    const OutputObserver record = [&](int index, double, const double* nodal, const double* nodal_slope) {
       const int col = cols - 1 - index;
-      if (!survival) nodal_slope(x, nodal);
       for (int r = 0; r < rows; ++r) {
         table(r, col) = interpolate(weights[r], nodal);
-        if (!survival) out.density(r, col) = interpolate(weights[r], slope.data());
+        // The density is the x-derivative of the interpolated cdf.
+        if (!survival) out.density(r, col) = interpolate(weights[r], nodal_slope);
       }
     };
     out.counters += integrate_backward(problem, outputs, record,
@@ -251,7 +246,7 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
     if (level > 0 && options.moments)
       for (int r = 0; r < rows; ++r)
         if (std::isfinite(levels.back().moments[r].mean)) centres[r] = levels.back().moments[r].mean;
-    levels.push_back(solve_level(req, plan, intervals, centres, options.moments));
+    levels.push_back(solve_level(req, plan, level, centres, options.moments));
     const auto& c = levels.back().counters;
     s.intervals.push_back(intervals);
     s.steps.push_back(c.steps);
@@ -280,7 +275,6 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
       for (int r = 0; r < rows; ++r) {
         // A law not covered by the integration range has no trustworthy moments.
         const bool covered = std::abs(L2.mass[r] - 1.0) < 1e-9;
-        if (std::getenv("EDGELAW_DEBUG")) fprintf(stderr, "row %d mass %.3e %.3e %.3e\n", r, L0.mass[r] - 1, L1.mass[r] - 1, L2.mass[r] - 1);
         for (int k = 0; k < 4; ++k) {
           const double c = moment_field(L0.moments[r], k), m = moment_field(L1.moments[r], k),
                        f = moment_field(L2.moments[r], k);
