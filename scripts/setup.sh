@@ -8,6 +8,7 @@ packages=(
   libgtest-dev libgmock-dev libbenchmark-dev libcli11-dev nlohmann-json3-dev libfmt-dev
   libboost-math-dev
   python3-numpy python3-scipy python3-mpmath python3-h5py python3-xarray python3-h5netcdf
+  r-cran-hdf5r
 )
 missing=()
 for p in "${packages[@]}"; do
