@@ -55,7 +55,7 @@ using CvodeMemory = std::unique_ptr<void, CvodeDeleter>;
 struct CallbackData {
   const KolmogorovOperator* op;
   double boundary;
-  double bulk, tail_relative, floor, scale;  // error weights; scale > 1 during burn-in
+  double bulk, tail_relative, floor;  // error weights, see BackwardProblem
   std::exception_ptr error;  // exceptions never cross the C callbacks
 };
 
@@ -66,7 +66,7 @@ int weight_callback(N_Vector u, N_Vector ewt, void* data) {
   const sunindextype n = N_VGetLength(u);
   for (sunindextype i = 0; i < n; ++i) {
     const double tol = std::max(std::min(d->bulk, d->tail_relative * std::abs(v[i])), d->floor);
-    e[i] = 1.0 / (tol * d->scale);
+    e[i] = 1.0 / tol;
   }
   return 0;
 }
@@ -118,7 +118,7 @@ IntegratorCounters integrate_backward(const BackwardProblem& problem, std::span<
   CvodeMemory mem(check_ptr(CVodeCreate(CV_BDF, raw_context), "CVodeCreate"));
   void* cv = mem.get();
   CallbackData data{problem.op, problem.boundary, problem.bulk_tolerance, problem.tail_relative, problem.floor,
-                    problem.x_start > problem.burn_in_until ? problem.loose_factor : 1.0, nullptr};
+                    nullptr};
   check(CVodeInit(cv, rhs_callback, problem.x_start, u.get()), "CVodeInit");
   check(CVodeSetUserData(cv, &data), "CVodeSetUserData");
   check(CVodeWFtolerances(cv, weight_callback), "CVodeWFtolerances");
@@ -172,7 +172,6 @@ IntegratorCounters integrate_backward(const BackwardProblem& problem, std::span<
     }
     if (on_step) on_step(x_new, x_old, dense_output);
     x_old = x_new;
-    if (x_new <= problem.burn_in_until) data.scale = 1.0;
   }
 
   IntegratorCounters c;

@@ -26,10 +26,6 @@ struct BackwardProblem {
   double bulk_tolerance = 1e-12;
   double tail_relative = 1e-9;
   double floor = 1e-30;
-  // Above this x the outputs are not needed and errors are damped before they reach them:
-  // the integrator may use `loose_factor` times the tolerances there.
-  double burn_in_until = -1e300;
-  double loose_factor = 1.0;
 };
 
 // The dense-output state at any x of the current step: fills the full nodal vector (N+1 values)

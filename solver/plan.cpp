@@ -3,7 +3,6 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdlib>
 #include <numbers>
 
 namespace edgelaw {
@@ -64,12 +63,7 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
     // Front widths in theta shrink like beta^{-1/2}; the prototype's 400 intervals suit beta = 2.
     plan.base_intervals = static_cast<int>(std::ceil(400.0 * std::max(1.0, std::sqrt(beta / 2.0)) / 8.0) * 8);
   }
-  plan.burn_in_until = req.x.back() + 1.0;
   plan.front_until = x_top + 1.0;
-  if (const char* e = std::getenv("EDGELAW_FRONT")) plan.front_weight = std::atof(e);
-  if (const char* e = std::getenv("EDGELAW_BULK")) plan.bulk_tolerance = std::atof(e);
-  if (const char* e = std::getenv("EDGELAW_TAIL")) plan.tail_relative = std::atof(e);
-  if (const char* e = std::getenv("EDGELAW_LOOSE")) plan.loose_factor = std::atof(e);
   return plan;
 }
 
