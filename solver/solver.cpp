@@ -16,7 +16,9 @@
 #include <chrono>
 #include <cmath>
 #include <numbers>
+#include <exception>
 #include <sstream>
+#include <thread>
 
 #include "grids/angle_grid.h"
 #include "solver/backward_run.h"
@@ -119,7 +121,8 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
     }
   };
 
-  for (const bool survival : {false, true}) {
+  // The cdf and the survival runs are independent: the survival runs on a second thread.
+  auto run = [&](bool survival) {
     BackwardProblem problem;
     problem.op = &op;
     problem.boundary = survival ? 1.0 : 0.0;
@@ -139,9 +142,26 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
         if (!survival) out.density(r, col) = interpolate(weights[r], nodal_slope);
       }
     };
-    out.counters += integrate_backward(problem, outputs, record,
-                                       (!survival && want_moments) ? accumulate : StepObserver{});
+    return integrate_backward(problem, outputs, record, (!survival && want_moments) ? accumulate : StepObserver{});
+  };
+  IntegratorCounters survival_counters;
+  std::exception_ptr survival_error;
+  std::thread survival_thread([&] {
+    try {
+      survival_counters = run(true);
+    } catch (...) {
+      survival_error = std::current_exception();
+    }
+  });
+  try {
+    out.counters += run(false);
+  } catch (...) {
+    survival_thread.join();
+    throw;
   }
+  survival_thread.join();
+  if (survival_error) std::rethrow_exception(survival_error);
+  out.counters += survival_counters;
   if (want_moments) {
     out.moments.resize(rows);
     out.mass.resize(rows);
