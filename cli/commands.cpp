@@ -1,12 +1,17 @@
-// Implementation of the table and evaluate subcommands.
+// Implementation of the table, evaluate, quantile and pvalue subcommands (sweeps: cli/sweep.cpp).
 #include "cli/commands.h"
 
+#include <unistd.h>
+
 #include <algorithm>
+#include <charconv>
 #include <cmath>
 #include <cstdio>
+#include <filesystem>
 #include <fstream>
 #include <iostream>
 #include <iterator>
+#include <limits>
 #include <map>
 #include <sstream>
 
@@ -16,24 +21,47 @@
 
 namespace edgelaw {
 
-namespace {
-struct UsageError : std::runtime_error {
-  using std::runtime_error::runtime_error;
-};
-
 std::string format_double(double v) {
   if (std::isinf(v)) return v > 0 ? "inf" : "-inf";
-  char buf[32];
-  std::snprintf(buf, sizeof buf, "%.17g", v);
-  return buf;
+  char buf[64];
+  const auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
+  return ec == std::errc() ? std::string(buf, end) : std::string("nan");
 }
-}  // namespace
+
+int guarded(const std::function<int()>& body) {
+  auto fail = [](const std::exception& e, int code) {
+    std::cerr << "edgelaw: error: " << e.what() << "\n";
+    return code;
+  };
+  try {
+    return body();
+  } catch (const UsageError& e) {
+    return fail(e, exit_code::kUsage);
+  } catch (const NoInputError& e) {
+    return fail(e, exit_code::kNoInput);
+  } catch (const DataError& e) {
+    return fail(e, exit_code::kBadData);
+  } catch (const TableFormatError& e) {
+    return fail(e, exit_code::kBadData);
+  } catch (const TableRangeError& e) {
+    return fail(e, exit_code::kBadData);
+  } catch (const OutputError& e) {
+    return fail(e, exit_code::kCannotCreate);
+  } catch (const TableWriteError& e) {
+    return fail(e, exit_code::kCannotCreate);
+  } catch (const SolveError& e) {
+    return fail(e, exit_code::kSoftware);
+  } catch (const std::exception& e) {
+    return fail(e, exit_code::kSoftware);
+  }
+}
 
 std::vector<double> axis(double first, double last, double step, const char* name) {
   const std::string n(name);
   if (!std::isfinite(first) || !std::isfinite(last) || !std::isfinite(step))
     throw UsageError(n + " range must be finite numbers");
-  if (!(last > first)) throw UsageError(n + " range is empty or inverted (" + format_double(first) + " .. " + format_double(last) + ")");
+  if (!(last > first))
+    throw UsageError(n + " range is empty or inverted (" + format_double(first) + " .. " + format_double(last) + ")");
   if (!(step > 0)) throw UsageError(n + " step must be positive");
   const double count = std::floor((last - first) / step + 1e-9) + 1;
   if (count > 1e7) throw UsageError(n + " axis would have more than 1e7 points");
@@ -42,90 +70,279 @@ std::vector<double> axis(double first, double last, double step, const char* nam
   return v;
 }
 
-int run_table(const TableCommand& c, const std::string&) {
+LawRequest grid_request(const GridOptions& g) {
+  LawRequest req;
+  req.x = axis(g.x_min, g.x_max, g.x_step, "x");
+  req.w = axis(g.w_min, g.w_max, g.w_step, "w");
+  if (g.with_unspiked) req.w.push_back(kInf);
+  return req;
+}
+
+SolverOptions grid_solver_options(const GridOptions& g) {
+  SolverOptions opt;
+  opt.target_error = g.target;
+  opt.base_intervals = g.base_intervals;
+  opt.max_levels = g.max_levels;
+  if (auto why = opt.check(); !why.empty()) throw UsageError(why);
+  return opt;
+}
+
+std::map<std::string, SettingValue> grid_settings(const GridOptions& g) {
+  const LawRequest req = grid_request(g);
+  const SolverOptions opt = grid_solver_options(g);
+  return {{"x_min", g.x_min},
+          {"x_max", g.x_max},
+          {"x_step", g.x_step},
+          {"x_count", std::int64_t(req.x.size())},
+          {"w_min", g.w_min},
+          {"w_max", g.w_max},
+          {"w_step", g.w_step},
+          {"w_count", std::int64_t(req.w.size())},
+          {"unspiked_row", std::int64_t(g.with_unspiked ? 1 : 0)},
+          {"target_error", opt.target_error},
+          {"tail_relative_error", opt.tail_relative_error},
+          {"base_intervals", std::int64_t(opt.base_intervals)},
+          {"min_levels", std::int64_t(opt.min_levels)},
+          {"max_levels", std::int64_t(opt.max_levels)},
+          {"moments", std::int64_t(opt.moments ? 1 : 0)}};
+}
+
+void check_output_path(const std::string& path) {
+  namespace fs = std::filesystem;
+  if (path.empty()) throw OutputError("empty output path");
+  const fs::path target(path);
+  const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
+  std::error_code ec;
+  if (!target.has_filename() || fs::is_directory(target, ec))
+    throw OutputError("cannot write " + path + ": it names a folder, not a file");
+  if (!fs::is_directory(dir, ec)) throw OutputError("cannot write " + path + ": folder " + dir.string() + " does not exist");
+  if (::access(dir.c_str(), W_OK | X_OK) != 0) throw OutputError("cannot write " + path + ": folder " + dir.string() + " is not writable");
+}
+
+void settle_into_unit_interval(LawTable& t, double target_error) {
+  auto settle = [target_error](RowMatrix& v, const RowMatrix& err) {
+    for (Eigen::Index i = 0; i < v.size(); ++i) {
+      double& x = v.data()[i];
+      const double slack = std::max(err.data()[i], target_error) + 4 * std::numeric_limits<double>::epsilon();
+      if (x < 0 && x >= -slack) x = 0;
+      if (x > 1 && x <= 1 + slack) x = 1;
+    }
+  };
+  settle(t.cdf, t.cdf_error);
+  settle(t.survival, t.survival_error);
+}
+
+namespace {
+
+double max_error(const SolveSummary& s) { return std::max(s.max_cdf_error, s.max_survival_error); }
+
+std::string table_title(double beta) {
+  return "edgelaw: spiked edge law F_beta(x; w), cdf and survival with error estimates, beta = " + format_double(beta);
+}
+
+// A table file the user named: missing is kNoInput, unreadable content is kBadData.
+LawTableFile open_table(const std::string& path) {
+  std::error_code ec;
+  if (!std::filesystem::is_regular_file(path, ec)) throw NoInputError("cannot read table file " + path);
+  return LawTableFile::open(path);
+}
+
+std::string point_text(double beta, double x, double w) {
+  return "(beta, x, w) = (" + format_double(beta) + ", " + format_double(x) + ", " + format_double(w) + ")";
+}
+
+// Evaluation at one point of a law or sweep file; a point outside the file is a DataError
+// naming it (the error message of the interpolator says which coordinate is out).
+template <class Eval>
+Estimate from_table(const LawTableFile& f, double beta, const std::string& what, Eval eval) {
+  if (!f.is_sweep() && beta != f.betas().front())
+    throw DataError(what + ": table " + f.path() + " holds only beta = " +
+                    format_double(f.betas().front()));
   try {
-    LawRequest req;
-    req.beta = c.beta;
-    req.x = axis(c.x_min, c.x_max, c.x_step, "x");
-    req.w = axis(c.w_min, c.w_max, c.w_step, "w");
-    if (c.with_unspiked) req.w.push_back(kInf);
-    SolverOptions opt;
-    opt.target_error = c.target;
-    if (auto why = check_request(req); !why.empty()) throw UsageError(why);
-    if (auto why = opt.check(); !why.empty()) throw UsageError(why);
-    const LawTable t = solve_law(req, opt);
-    std::cerr << t.summary.full();
-    std::cout << "beta " << t.beta << ", " << t.x.size() << " thresholds x in [" << t.x.front() << ", " << t.x.back()
-              << "], " << t.w.size() << " boundary parameters w in [" << t.w.front() << ", " << t.w.back() << "]\n";
-    std::cout << "max estimated error: cdf " << t.summary.max_cdf_error << ", survival " << t.summary.max_survival_error
-              << " (target " << c.target << ")\n";
-    if (!t.moments.empty() && std::isfinite(t.moments.back().mean) && std::isinf(t.w.back())) {
-      const auto& m = t.moments.back();
-      const auto& e = t.moment_errors.back();
-      std::printf("unspiked row (w = inf): mean %.12f (+- %.1e), variance %.12f (+- %.1e)\n", m.mean, e.mean, m.variance,
-                  e.variance);
-    }
-    if (!t.summary.converged) {
-      std::cerr << "edgelaw: error: accuracy target " << c.target << " not reached (max estimated error "
-                << std::max(t.summary.max_cdf_error, t.summary.max_survival_error) << ")\n";
-      return exit_code::kSoftware;
-    }
-    return exit_code::kOk;
-  } catch (const UsageError& e) {
-    std::cerr << "edgelaw: error: " << e.what() << "\n";
-    return exit_code::kUsage;
-  } catch (const SolveError& e) {
-    std::cerr << "edgelaw: error: " << e.what() << "\n";
-    return exit_code::kSoftware;
+    return eval(f.is_sweep() ? beta : f.betas().front());
+  } catch (const TableRangeError& e) {
+    throw DataError(what + " is outside table " + f.path() + ": " + e.what());
   }
 }
 
-int run_evaluate(const EvaluateCommand& c) {
+double parse_w(const std::string& text) {
   try {
+    return parse_number(text, true);
+  } catch (const DataError& e) {
+    throw UsageError(std::string("--w: ") + e.what());
+  }
+}
+
+std::string json_string(const std::string& s) {
+  std::string out = "\"";
+  for (char ch : s) {
+    if (ch == '"' || ch == '\\') {
+      out += '\\';
+      out += ch;
+    } else if (static_cast<unsigned char>(ch) < 0x20) {
+      char buf[8];
+      std::snprintf(buf, sizeof buf, "\\u%04x", ch);
+      out += buf;
+    } else {
+      out += ch;
+    }
+  }
+  return out + "\"";
+}
+
+// JSON has no infinity: w = +inf is written as the string "inf".
+std::string json_number(double v) { return std::isfinite(v) ? format_double(v) : json_string(format_double(v)); }
+
+void print_lookup(const LookupCommand& c, const char* input_name, double input, const char* name, Estimate e) {
+  const double w = parse_w(c.w);
+  const std::string source = c.table.empty() ? "solve" : "table " + c.table;
+  if (c.json) {
+    std::cout << "{\"beta\": " << json_number(c.beta) << ", \"w\": " << json_number(w) << ", \"" << input_name
+              << "\": " << json_number(input) << ", \"" << name << "\": " << json_number(e.value)
+              << ", \"error\": " << json_number(e.error) << ", \"source\": " << json_string(source) << "}\n";
+  } else {
+    std::cout << name << " " << format_double(e.value) << " (estimated error " << format_double(e.error) << ")\n";
+  }
+}
+
+void check_lookup(const LookupCommand& c) {
+  LawRequest req;
+  req.beta = c.beta;
+  req.x = {0.0};
+  req.w = {parse_w(c.w)};
+  if (auto why = check_request(req); !why.empty()) throw UsageError(why);
+  SolverOptions opt;
+  opt.target_error = c.target;
+  if (auto why = opt.check(); !why.empty()) throw UsageError(why);
+}
+
+// Thresholds that hold every probability level a double can tell from 0 or 1 (both tails
+// reach e^-30): the left tail log F ~ -(beta/24)|x|^3 from the Airy zero a_1, the spiked
+// right tail exp(-(beta/3) x^{3/2}), and the Gaussian regime w < 0 around w^2 with
+// standard deviation 2 sqrt(|w|/beta) (design notes, section 1).
+std::vector<double> lookup_axis(double beta, double w) {
+  double lo = -2.338107410459767 - std::cbrt(24.0 * 30.0 / beta);
+  double hi = std::max(2.0, std::pow(90.0 / beta, 2.0 / 3.0));
+  if (w < 0) {
+    const double sd = 2.0 * std::sqrt(-w / beta);
+    lo = std::min(lo, w * w - 8.0 * sd);
+    hi = std::max(hi, w * w + 8.0 * sd);
+  }
+  // 0.05 keeps the quintic Hermite interpolation error near 1e-10 at beta = 2 (the reader's
+  // own estimate is reported, so a coarser grid would show up in the error, not hide).
+  return axis(std::floor(lo), std::ceil(hi), 0.05, "x");
+}
+
+LawTable solve_checked(const LawRequest& req, const SolverOptions& opt) {
+  LawTable t = solve_law(req, opt);
+  settle_into_unit_interval(t, opt.target_error);
+  std::cerr << t.summary.brief() << "\n";
+  if (!t.summary.converged)
+    throw SolveError("accuracy target " + format_double(opt.target_error) + " not reached for beta " +
+                     format_double(req.beta) + " (max estimated error " + format_double(max_error(t.summary)) + ")");
+  return t;
+}
+
+}  // namespace
+
+int run_table(const TableCommand& c, const Invocation& inv) {
+  return guarded([&] {
+    LawRequest req = grid_request(c.grid);
+    req.beta = c.beta;
+    const SolverOptions opt = grid_solver_options(c.grid);
+    if (auto why = check_request(req); !why.empty()) throw UsageError(why);
+    check_output_path(c.output);  // before minutes of solving, not after
+    LawTable t = solve_law(req, opt);
+    settle_into_unit_interval(t, opt.target_error);
+    std::cerr << t.summary.full();
+    const double worst = max_error(t.summary);
+    if (!t.summary.converged && !c.grid.keep_unconverged)
+      throw SolveError("accuracy target " + format_double(c.grid.target) + " not reached (max estimated error " +
+                       format_double(worst) + "); nothing written (--keep-unconverged writes it anyway)");
+
+    TableMetadata meta;
+    meta.title = table_title(c.beta);
+    meta.history = make_history_line("edgelaw", inv.version, inv.argc, inv.argv);
+    meta.settings = grid_settings(c.grid);
+    write_table(c.output, t, meta);
+    if (!t.summary.converged)
+      std::cerr << "edgelaw: warning: " << c.output << " missed the accuracy target " << format_double(c.grid.target)
+                << " (max estimated error " << format_double(worst) << "); written with converged = 0\n";
+
+    std::printf("wrote %s (beta %s, %zu x in [%s, %s], %zu w in [%s, %s])\n", c.output.c_str(),
+                format_double(t.beta).c_str(), t.x.size(), format_double(t.x.front()).c_str(),
+                format_double(t.x.back()).c_str(), t.w.size(), format_double(t.w.front()).c_str(),
+                format_double(t.w.back()).c_str());
+    std::printf("max estimated error: cdf %.2e, survival %.2e (target %.1e)%s\n", t.summary.max_cdf_error,
+                t.summary.max_survival_error, c.grid.target, t.summary.converged ? "" : " NOT CONVERGED");
+    if (!t.moments.empty() && std::isinf(t.w.back()) && std::isfinite(t.moments.back().mean)) {
+      const auto& m = t.moments.back();
+      const auto& e = t.moment_errors.back();
+      std::printf("unspiked row (w = inf): mean %.12f (+- %.1e), variance %.12f (+- %.1e)\n", m.mean, e.mean,
+                  m.variance, e.variance);
+    }
+    std::printf("solve: %.1f s, observed order %.2f\n", t.summary.wall_seconds, t.summary.observed_order);
+    return exit_code::kOk;
+  });
+}
+
+int run_evaluate(const EvaluateCommand& c) {
+  return guarded([&] {
     SolverOptions opt;
     opt.target_error = c.target;
     opt.moments = false;
     if (auto why = opt.check(); !why.empty()) throw UsageError(why);
+    if (!c.output.empty() && c.output != "-") check_output_path(c.output);
     std::string text;
     if (c.input == "-") {
       text.assign(std::istreambuf_iterator<char>(std::cin), {});
     } else {
       std::ifstream in(c.input, std::ios::binary);
-      if (!in) {
-        std::cerr << "edgelaw: error: cannot read input file " << c.input << "\n";
-        return exit_code::kNoInput;
-      }
+      if (!in) throw NoInputError("cannot read input file " + c.input);
       text.assign(std::istreambuf_iterator<char>(in), {});
     }
-    const std::vector<Point> points = parse_points_csv(text);
+    std::vector<Point> points;
+    try {
+      points = parse_points_csv(text);
+    } catch (const DataError& e) {
+      throw DataError(c.input + ": " + e.what());
+    }
 
-    // One solve per beta serves all its points: the table over its distinct x and w.
-    std::map<double, std::vector<std::size_t>> by_beta;
-    for (std::size_t i = 0; i < points.size(); ++i) by_beta[points[i].beta].push_back(i);
     struct Value {
       double cdf, survival, cdf_error, survival_error;
     };
     std::vector<Value> values(points.size());
-    for (const auto& [beta, members] : by_beta) {
-      LawRequest req;
-      req.beta = beta;
-      for (auto i : members) {
-        req.x.push_back(points[i].x);
-        req.w.push_back(points[i].w);
+    if (!c.table.empty()) {
+      const LawTableFile f = open_table(c.table);
+      for (std::size_t i = 0; i < points.size(); ++i) {
+        const auto& p = points[i];
+        const Estimate cdf = from_table(f, p.beta, "point " + point_text(p.beta, p.x, p.w), [&](double b) { return f.cdf(p.x, p.w, b); });
+        const Estimate sv = from_table(f, p.beta, "point " + point_text(p.beta, p.x, p.w), [&](double b) { return f.survival(p.x, p.w, b); });
+        values[i] = {cdf.value, sv.value, cdf.error, sv.error};
       }
-      std::sort(req.x.begin(), req.x.end());
-      req.x.erase(std::unique(req.x.begin(), req.x.end()), req.x.end());
-      std::sort(req.w.begin(), req.w.end());
-      req.w.erase(std::unique(req.w.begin(), req.w.end()), req.w.end());
-      if (auto why = check_request(req); !why.empty()) throw DataError("beta " + format_double(beta) + ": " + why);
-      const LawTable t = solve_law(req, opt);
-      std::cerr << t.summary.brief() << "\n";
-      if (!t.summary.converged)
-        throw SolveError("accuracy target " + format_double(c.target) + " not reached for beta " + format_double(beta));
-      for (auto i : members) {
-        const auto col = std::lower_bound(req.x.begin(), req.x.end(), points[i].x) - req.x.begin();
-        const auto row = std::lower_bound(req.w.begin(), req.w.end(), points[i].w) - req.w.begin();
-        values[i] = {t.cdf(row, col), t.survival(row, col), t.cdf_error(row, col), t.survival_error(row, col)};
+    } else {
+      // One solve per beta serves all its points: the table over its distinct x and w.
+      std::map<double, std::vector<std::size_t>> by_beta;
+      for (std::size_t i = 0; i < points.size(); ++i) by_beta[points[i].beta].push_back(i);
+      for (const auto& [beta, members] : by_beta) {
+        LawRequest req;
+        req.beta = beta;
+        for (auto i : members) {
+          req.x.push_back(points[i].x);
+          req.w.push_back(points[i].w);
+        }
+        std::sort(req.x.begin(), req.x.end());
+        req.x.erase(std::unique(req.x.begin(), req.x.end()), req.x.end());
+        std::sort(req.w.begin(), req.w.end());
+        req.w.erase(std::unique(req.w.begin(), req.w.end()), req.w.end());
+        if (auto why = check_request(req); !why.empty())
+          throw DataError(c.input + ": beta " + format_double(beta) + ": " + why);
+        const LawTable t = solve_checked(req, opt);
+        for (auto i : members) {
+          const auto col = std::lower_bound(req.x.begin(), req.x.end(), points[i].x) - req.x.begin();
+          const auto row = std::lower_bound(req.w.begin(), req.w.end(), points[i].w) - req.w.begin();
+          values[i] = {t.cdf(row, col), t.survival(row, col), t.cdf_error(row, col), t.survival_error(row, col)};
+        }
       }
     }
     std::ostringstream out;
@@ -142,19 +359,58 @@ int run_evaluate(const EvaluateCommand& c) {
     else
       write_file_atomically(c.output, out.str());
     return exit_code::kOk;
-  } catch (const UsageError& e) {
-    std::cerr << "edgelaw: error: " << e.what() << "\n";
-    return exit_code::kUsage;
-  } catch (const DataError& e) {
-    std::cerr << "edgelaw: error: " << c.input << ": " << e.what() << "\n";
-    return exit_code::kBadData;
-  } catch (const SolveError& e) {
-    std::cerr << "edgelaw: error: " << e.what() << "\n";
-    return exit_code::kSoftware;
-  } catch (const OutputError& e) {
-    std::cerr << "edgelaw: error: " << e.what() << "\n";
-    return exit_code::kCannotCreate;
-  }
+  });
+}
+
+int run_quantile(const LookupCommand& c) {
+  return guarded([&] {
+    check_lookup(c);
+    if (!(c.probability > 0 && c.probability < 1))
+      throw UsageError("probability must lie strictly between 0 and 1, got " + format_double(c.probability));
+    const double w = parse_w(c.w);
+    Estimate q;
+    if (!c.table.empty()) {
+      const LawTableFile f = open_table(c.table);
+      q = from_table(f, c.beta, "probability " + format_double(c.probability) + " at (beta, w) = (" + format_double(c.beta) + ", " + format_double(w) + ")", [&](double b) { return f.quantile(c.probability, w, b); });
+    } else {
+      LawRequest req;
+      req.beta = c.beta;
+      req.x = lookup_axis(c.beta, w);
+      req.w = {w};
+      SolverOptions opt;
+      opt.target_error = c.target;
+      opt.moments = false;
+      const LawInterpolator interp(solve_checked(req, opt));
+      q = interp.quantile(c.probability, w);
+    }
+    print_lookup(c, "probability", c.probability, "quantile", q);
+    return exit_code::kOk;
+  });
+}
+
+int run_pvalue(const LookupCommand& c) {
+  return guarded([&] {
+    check_lookup(c);
+    if (!std::isfinite(c.x)) throw UsageError("threshold x must be finite");
+    const double w = parse_w(c.w);
+    Estimate p;
+    if (!c.table.empty()) {
+      const LawTableFile f = open_table(c.table);
+      p = from_table(f, c.beta, "point " + point_text(c.beta, c.x, w), [&](double b) { return f.survival(c.x, w, b); });
+    } else {
+      LawRequest req;
+      req.beta = c.beta;
+      req.x = {c.x};
+      req.w = {w};
+      SolverOptions opt;
+      opt.target_error = c.target;
+      opt.moments = false;
+      const LawTable t = solve_checked(req, opt);
+      p = {t.survival(0, 0), t.survival_error(0, 0)};
+    }
+    print_lookup(c, "x", c.x, "pvalue", p);
+    return exit_code::kOk;
+  });
 }
 
 }  // namespace edgelaw

@@ -6,6 +6,7 @@
 #include <fcntl.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <atomic>
 #include <chrono>
 #include <cmath>
@@ -190,6 +191,10 @@ void write_summaries(hid_t file, const std::vector<LawTable>& tables, bool sweep
   std::vector<std::int64_t> converged;
   for (const auto& t : tables) converged.push_back(t.summary.converged ? 1 : 0);
   put_numbers(file, "solve_converged", converged, sweep ? std::vector<hsize_t>{nb} : std::vector<hsize_t>{});
+  // One flag for the whole file, so a reader need not scan the per-beta array to learn that
+  // some slice missed its accuracy target (written only on request, e.g. --keep-unconverged).
+  const bool all_converged = std::all_of(converged.begin(), converged.end(), [](std::int64_t c) { return c == 1; });
+  put_numbers(file, "converged", std::vector<std::int64_t>{all_converged ? 1 : 0}, std::vector<hsize_t>{});
 
   // Per grid level counters; a sweep pads shorter level lists with -1 (counts are >= 0).
   auto levels = [&](const char* name, auto get) {
