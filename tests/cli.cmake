@@ -1,6 +1,6 @@
 # Tests of the command line: the library behind it (C++) and the program end to end (bash, Python).
 edgelaw_test(cli_test SOURCES cli_test.cpp LIBS edgelaw_cli_support hdf5::hdf5 LABELS fast WHOLE)
-edgelaw_test(cli_quantile_test SOURCES cli_quantile_test.cpp LIBS edgelaw_cli_support LABELS slow)
+edgelaw_test(cli_quantile_test SOURCES cli_quantile_test.cpp LIBS edgelaw_cli_support edgelaw_reference LABELS slow)
 
 # Bad input: one stderr line, the documented exit code, no file left behind.
 add_test(NAME cli_errors

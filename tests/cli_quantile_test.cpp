@@ -8,6 +8,8 @@
 #include <filesystem>
 #include <string>
 
+#include "reference/fredholm.h"
+
 namespace edgelaw {
 namespace {
 
@@ -39,6 +41,33 @@ TEST(TableQuantiles, Tw2AtTightTarget) {
     EXPECT_NEAR(q.value, ref, q.error) << "p = " << p;
     EXPECT_NEAR(q.value, ref, 1e-7) << "p = " << p;
     EXPECT_LT(q.error, 1e-7) << "p = " << p;
+  }
+  fs::remove_all(dir);
+}
+
+TEST(TableQuantiles, Tw1AgainstFredholm) {
+  // beta = 1: reference quantiles computed here from the Fredholm determinant det(I - B) of
+  // tests/reference (Bornemann 2010 method, ~1e-13 in x); same tolerances as above.
+  const fs::path dir("cli_quantile_test_tmp1_" + std::to_string(::getpid()));
+  fs::create_directories(dir);
+  TableCommand c;
+  c.beta = 1;
+  c.grid.x_min = -0.5;
+  c.grid.x_max = 2.5;
+  c.grid.x_step = 0.05;
+  c.grid.w_min = 0;
+  c.grid.w_max = 1;
+  c.grid.w_step = 1;
+  c.grid.target = 1e-9;
+  c.output = (dir / "tw1.h5").string();
+  const char* argv[] = {"edgelaw", "table"};
+  ASSERT_EQ(run_table(c, Invocation{2, argv, "test"}), 0);
+  const LawTableFile f = LawTableFile::open(c.output);
+  for (double p : {0.90, 0.95, 0.99}) {
+    const double ref = reference::tracy_widom_quantile(1, p);
+    const Estimate q = f.quantile(p, kInf);
+    EXPECT_NEAR(q.value, ref, q.error + 1e-12) << "p = " << p;
+    EXPECT_NEAR(q.value, ref, 1e-7) << "p = " << p;
   }
   fs::remove_all(dir);
 }
