@@ -75,6 +75,12 @@ TEST_F(Beta2, TracyWidomMoments) {
   EXPECT_NEAR(m.variance, 0.8131947928329, 1e-9);
   EXPECT_NEAR(m.skewness, 0.2240842036, 1e-7);
   EXPECT_NEAR(m.excess_kurtosis, 0.0934480876, 1e-7);
+  // The reported moment errors must bound the actual ones (the table's last digits aside).
+  const auto& e = t().moment_errors.back();
+  EXPECT_LE(std::abs(m.mean + 1.7710868074116), e.mean + 1e-13);
+  EXPECT_LE(std::abs(m.variance - 0.8131947928329), e.variance + 1e-13);
+  EXPECT_LE(std::abs(m.skewness - 0.2240842036), e.skewness + 1e-10);
+  EXPECT_LE(std::abs(m.excess_kurtosis - 0.0934480876), e.excess_kurtosis + 1e-10);
 }
 
 // F is a distribution function increasing in x and in w; cdf + survival = 1 within the estimates.
