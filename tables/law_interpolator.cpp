@@ -2,6 +2,7 @@
 #include "tables/law_interpolator.h"
 
 #include "tables/lagrange.h"
+#include "tables/summary_fields.h"
 
 #include <algorithm>
 #include <cmath>
@@ -12,11 +13,7 @@ namespace edgelaw {
 
 namespace {
 
-std::string num(double v) {
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.10g", v);
-  return buf;
-}
+std::string num(double v) { return format_number(v); }
 
 struct Hermite {
   double value;

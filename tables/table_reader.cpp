@@ -2,6 +2,7 @@
 #include "tables/table_file.h"
 
 #include "tables/lagrange.h"
+#include "tables/summary_fields.h"
 
 #include <cmath>
 #include <cstdio>
@@ -12,11 +13,7 @@ namespace edgelaw {
 
 namespace {
 
-std::string num(double v) {
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.10g", v);
-  return buf;
-}
+std::string num(double v) { return format_number(v); }
 
 bool has_link(hid_t file, const char* name) { return h5_check(H5Lexists(file, name, H5P_DEFAULT), "H5Lexists") > 0; }
 bool has_attr(hid_t obj, const char* name) { return h5_check(H5Aexists(obj, name), "H5Aexists") > 0; }
@@ -132,16 +129,7 @@ herr_t collect_settings(hid_t obj, const char* name, const H5A_info_t*, void* da
 
 void read_summaries(hid_t file, std::vector<LawTable>& tables, bool sweep) {
   using S = SolveSummary;
-  const std::pair<const char*, double S::*> scalars[] = {
-      {"solve_x_low", &S::x_low},
-      {"solve_x_high", &S::x_high},
-      {"solve_time_tolerance", &S::time_tolerance},
-      {"solve_observed_order", &S::observed_order},
-      {"solve_nominal_order", &S::nominal_order},
-      {"solve_max_cdf_error", &S::max_cdf_error},
-      {"solve_max_survival_error", &S::max_survival_error},
-      {"solve_max_time_error", &S::max_time_error},
-      {"solve_wall_seconds", &S::wall_seconds}};
+  const auto& scalars = kSummaryScalars;
   const std::size_t nb = tables.size();
   for (auto& t : tables) t.summary.beta = t.beta;
   for (const auto& [name, field] : scalars) {

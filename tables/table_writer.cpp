@@ -1,5 +1,6 @@
 // Writes law and sweep tables as netCDF-4 compatible HDF5, atomically (see tables/FORMAT.md).
 #include "tables/table_file.h"
+#include "tables/summary_fields.h"
 
 #include <hdf5_hl.h>
 
@@ -110,11 +111,7 @@ struct Writer {
   }
 };
 
-std::string num(double v) {
-  char buf[40];
-  std::snprintf(buf, sizeof buf, "%.10g", v);
-  return buf;
-}
+std::string num(double v) { return format_number(v); }
 
 bool valid_key(const std::string& key) {
   if (key.empty() || key[0] == '_') return false;
@@ -172,16 +169,7 @@ std::vector<double> stack_moment(const std::vector<LawTable>& tables, std::vecto
 
 void write_summaries(hid_t file, const std::vector<LawTable>& tables, bool sweep) {
   using S = SolveSummary;
-  const std::pair<const char*, double S::*> scalars[] = {
-      {"solve_x_low", &S::x_low},
-      {"solve_x_high", &S::x_high},
-      {"solve_time_tolerance", &S::time_tolerance},
-      {"solve_observed_order", &S::observed_order},
-      {"solve_nominal_order", &S::nominal_order},
-      {"solve_max_cdf_error", &S::max_cdf_error},
-      {"solve_max_survival_error", &S::max_survival_error},
-      {"solve_max_time_error", &S::max_time_error},
-      {"solve_wall_seconds", &S::wall_seconds}};
+  const auto& scalars = kSummaryScalars;
   const hsize_t nb = tables.size();
   for (const auto& [name, field] : scalars) {
     std::vector<double> v;
