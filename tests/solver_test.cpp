@@ -3,8 +3,6 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
-#include <cstdio>
-#include <cstdlib>
 
 #include "reference/fredholm.h"
 #include "solver/solver.h"
@@ -55,9 +53,6 @@ TEST_F(Beta2, MatchesFredholmSpikedFormula) {
       ++points;
       // The estimate may miss by the reference's own error (1e-13, see fredholm.h).
       const bool ok = (e_cdf <= t().cdf_error(r, c) + 1e-13) && (e_sur <= t().survival_error(r, c) + 1e-13);
-      if (!ok && std::getenv("SHOW"))
-        std::printf("x=%g w=%g cdf %.3e est %.3e | sur %.3e est %.3e | F %.6e\n", x, w, e_cdf, t().cdf_error(r, c), e_sur,
-                    t().survival_error(r, c), t().cdf(r, c));
       bounded += ok;
     }
   }
