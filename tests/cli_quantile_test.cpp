@@ -15,23 +15,28 @@ namespace {
 
 namespace fs = std::filesystem;
 
-TEST(TableQuantiles, Tw2AtTightTarget) {
-  // About 10-15 s: default angle grids at a 1e-9 target, x only where the quantiles lie.
-  const fs::path dir("cli_quantile_test_tmp_" + std::to_string(::getpid()));
+// Writes a 1e-9 table of the unspiked law (plus a w = 0 row) over [x_min, x_max] with the table
+// command and opens it: about 10-15 s for beta = 2, longer for beta = 1 (wider law).
+LawTableFile tight_table(double beta, double x_min, double x_max, const fs::path& dir) {
   fs::create_directories(dir);
   TableCommand c;
-  c.beta = 2;
-  c.grid.x_min = -1.2;
-  c.grid.x_max = 0.8;
+  c.beta = beta;
+  c.grid.x_min = x_min;
+  c.grid.x_max = x_max;
   c.grid.x_step = 0.05;
   c.grid.w_min = 0;
   c.grid.w_max = 1;
   c.grid.w_step = 1;
   c.grid.target = 1e-9;
-  c.output = (dir / "tw2.h5").string();
+  c.output = (dir / "table.h5").string();
   const char* argv[] = {"edgelaw", "table"};
-  ASSERT_EQ(run_table(c, Invocation{2, argv, "test"}), 0);
-  const LawTableFile f = LawTableFile::open(c.output);
+  EXPECT_EQ(run_table(c, Invocation{2, argv, "test"}), 0);
+  return LawTableFile::open(c.output);
+}
+
+TEST(TableQuantiles, Tw2AtTightTarget) {
+  const fs::path dir("cli_quantile_test_tmp_" + std::to_string(::getpid()));
+  const LawTableFile f = tight_table(2, -1.2, 0.8, dir);
   // References: Fredholm-determinant quantiles (Bornemann 2010 method, good to ~2e-15),
   // design notes section 4. Tolerances: the reported error estimate, and 1e-7 as asked of a
   // 1e-9 table (the quantile error is the cdf error over a density of ~0.1 to 0.4 here).
@@ -49,20 +54,7 @@ TEST(TableQuantiles, Tw1AgainstFredholm) {
   // beta = 1: reference quantiles computed here from the Fredholm determinant det(I - B) of
   // tests/reference (Bornemann 2010 method, ~1e-13 in x); same tolerances as above.
   const fs::path dir("cli_quantile_test_tmp1_" + std::to_string(::getpid()));
-  fs::create_directories(dir);
-  TableCommand c;
-  c.beta = 1;
-  c.grid.x_min = -0.5;
-  c.grid.x_max = 2.5;
-  c.grid.x_step = 0.05;
-  c.grid.w_min = 0;
-  c.grid.w_max = 1;
-  c.grid.w_step = 1;
-  c.grid.target = 1e-9;
-  c.output = (dir / "tw1.h5").string();
-  const char* argv[] = {"edgelaw", "table"};
-  ASSERT_EQ(run_table(c, Invocation{2, argv, "test"}), 0);
-  const LawTableFile f = LawTableFile::open(c.output);
+  const LawTableFile f = tight_table(1, -0.5, 2.5, dir);
   for (double p : {0.90, 0.95, 0.99}) {
     const double ref = reference::tracy_widom_quantile(1, p);
     const Estimate q = f.quantile(p, kInf);
