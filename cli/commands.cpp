@@ -119,19 +119,6 @@ void check_output_path(const std::string& path) {
   if (::access(dir.c_str(), W_OK | X_OK) != 0) throw OutputError("cannot write " + path + ": folder " + dir.string() + " is not writable");
 }
 
-void settle_into_unit_interval(LawTable& t, double target_error) {
-  auto settle = [target_error](RowMatrix& v, const RowMatrix& err) {
-    for (Eigen::Index i = 0; i < v.size(); ++i) {
-      double& x = v.data()[i];
-      const double slack = std::max(err.data()[i], target_error) + 4 * std::numeric_limits<double>::epsilon();
-      if (x < 0 && x >= -slack) x = 0;
-      if (x > 1 && x <= 1 + slack) x = 1;
-    }
-  };
-  settle(t.cdf, t.cdf_error);
-  settle(t.survival, t.survival_error);
-}
-
 namespace {
 
 double max_error(const SolveSummary& s) { return std::max(s.max_cdf_error, s.max_survival_error); }
@@ -235,7 +222,6 @@ std::vector<double> lookup_axis(double beta, double w) {
 
 LawTable solve_checked(const LawRequest& req, const SolverOptions& opt) {
   LawTable t = solve_law(req, opt);
-  settle_into_unit_interval(t, opt.target_error);
   std::cerr << t.summary.brief() << "\n";
   if (!t.summary.converged)
     throw SolveError("accuracy target " + format_double(opt.target_error) + " not reached for beta " +
@@ -253,7 +239,6 @@ int run_table(const TableCommand& c, const Invocation& inv) {
     if (auto why = check_request(req); !why.empty()) throw UsageError(why);
     check_output_path(c.output);  // before minutes of solving, not after
     LawTable t = solve_law(req, opt);
-    settle_into_unit_interval(t, opt.target_error);
     std::cerr << t.summary.full();
     const double worst = max_error(t.summary);
     if (!t.summary.converged && !c.grid.keep_unconverged)

@@ -101,12 +101,6 @@ std::map<std::string, SettingValue> grid_settings(const GridOptions& g);
 // before a long solve so that a typo in the folder fails at once.
 void check_output_path(const std::string& path);
 
-// Clamps cdf and survival entries into [0, 1] where they overshoot by no more than their
-// error estimate or the accuracy target the solve certified (the solver can return
-// 1 + 5e-14 deep in the upper tail with a smaller error estimate there, and the table format
-// refuses values outside [0, 1]); larger excursions are left for the table check to reject.
-void settle_into_unit_interval(LawTable& t, double target_error);
-
 // Shortest text that reads back as exactly v ("inf" for +infinity).
 std::string format_double(double v);
 

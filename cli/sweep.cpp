@@ -212,7 +212,6 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
           LawRequest req = base;
           req.beta = beta;
           LawTable t = solve_law(req, opt);
-          settle_into_unit_interval(t, opt.target_error);
           if (!t.summary.converged && !c.grid.keep_unconverged)
             throw SolveError("beta " + format_double(beta) + ": accuracy target " + format_double(c.grid.target) +
                              " not reached (max estimated error " +

@@ -199,6 +199,17 @@ void richardson(const RowMatrix& c, const RowMatrix& m, const RowMatrix& f, doub
   }
 }
 
+// Probabilities lie in [0, 1]; an extrapolated value outside (by ~1e-14 in the far tails) is
+// moved onto the interval, which brings it closer to the truth, and the move is added to its
+// error estimate so the estimate stays a bound for the unclamped value too.
+void clamp_probabilities(RowMatrix& value, RowMatrix& error) {
+  for (Eigen::Index i = 0; i < value.size(); ++i) {
+    const double v = value.data()[i], c = std::clamp(v, 0.0, 1.0);
+    error.data()[i] += std::abs(v - c);
+    value.data()[i] = c;
+  }
+}
+
 double moment_field(const Moments& m, int k) {
   return k == 0 ? m.mean : k == 1 ? m.variance : k == 2 ? m.skewness : m.excess_kurtosis;
 }
@@ -308,6 +319,8 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
     s.max_time_error = floor_abs;
     richardson(L0.cdf, L1.cdf, L2.cdf, p, floor_abs, floor_rel, t.cdf, t.cdf_error);
     richardson(L0.survival, L1.survival, L2.survival, p, floor_abs, floor_rel, t.survival, t.survival_error);
+    clamp_probabilities(t.cdf, t.cdf_error);
+    clamp_probabilities(t.survival, t.survival_error);
     // Densities reach ~10 at most; their integrator floor scales with the steepest slope.
     richardson(L0.density, L1.density, L2.density, p, 10 * floor_abs, floor_rel, t.density, t.density_error);
     s.max_cdf_error = t.cdf_error.maxCoeff();
