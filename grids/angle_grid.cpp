@@ -92,12 +92,8 @@ PointWeights AngleGrid::point_weights(double theta) const {
   PointWeights p;
   p.size = 8;
   p.first = std::clamp(right - 4, 0, n + 1 - p.size);
-  const auto w = finite_difference_weights(theta, std::span(theta_).subspan(p.first, p.size), 2);
-  for (int k = 0; k < p.size; ++k) {
-    p.value[k] = w(k, 0);
-    p.slope[k] = w(k, 1);
-    p.curvature[k] = w(k, 2);
-  }
+  const auto w = finite_difference_weights(theta, std::span(theta_).subspan(p.first, p.size), 0);
+  for (int k = 0; k < p.size; ++k) p.value[k] = w(k, 0);
   return p;
 }
 

@@ -15,11 +15,11 @@ struct Stencil {
   std::array<double, 8> weight{};
 };
 
-// Interpolation weights at an arbitrary angle, for the value and the first two derivatives.
+// Interpolation weights at an arbitrary angle: value ~ sum_k value[k] * u[first + k].
 struct PointWeights {
   int first = 0;
   int size = 0;
-  std::array<double, 8> value{}, slope{}, curvature{};
+  std::array<double, 8> value{};
 };
 
 // Nodes 0..N with theta_0 = 0 (w = +inf, where the drift is +1 and the diffusion vanishes, so no

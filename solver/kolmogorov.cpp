@@ -8,7 +8,7 @@
 
 namespace edgelaw {
 
-KolmogorovOperator::KolmogorovOperator(double beta, const AngleGrid& grid) : beta_(beta), grid_(grid) {
+KolmogorovOperator::KolmogorovOperator(double beta, const AngleGrid& grid) : grid_(grid) {
   const int n = grid.intervals();
   cos2_.resize(n);
   sin2_.resize(n);
@@ -21,16 +21,6 @@ KolmogorovOperator::KolmogorovOperator(double beta, const AngleGrid& grid) : bet
     extra_[i] = (4.0 / beta) * s * s * s * c;
     diffusion_[i] = (2.0 / beta) * s * s * s * s;
   }
-}
-
-double KolmogorovOperator::drift(double x, double theta) const {
-  const double c = std::cos(theta), s = std::sin(theta);
-  return c * c - x * s * s + (4.0 / beta_) * s * s * s * c;
-}
-
-double KolmogorovOperator::diffusion(double theta) const {
-  const double s = std::sin(theta);
-  return (2.0 / beta_) * s * s * s * s;
 }
 
 namespace {

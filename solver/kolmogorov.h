@@ -25,9 +25,6 @@ class KolmogorovOperator {
   static constexpr int kLowerBand = 4;
   static constexpr int kUpperBand = 5;
 
-  double drift(double x, double theta) const;
-  double diffusion(double theta) const;
-
   // du = dF/dx at the unknowns for the state u (size N) with the Dirichlet value at node N.
   void rhs(double x, const double* u, double boundary, double* du) const;
   // The exact (banded) Jacobian d(du)/du at x; independent of u and of the boundary value.
@@ -40,7 +37,6 @@ class KolmogorovOperator {
   static constexpr double kBlendWidth = 0.25;
 
  private:
-  double beta_;
   const AngleGrid& grid_;
   // Per node: cos^2, sin^2, (4/beta) sin^3 cos and the diffusion; a(x) = c - x s + e.
   std::vector<double> cos2_, sin2_, extra_, diffusion_;

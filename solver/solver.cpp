@@ -84,11 +84,7 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
   const int rows = static_cast<int>(req.w.size()), cols = static_cast<int>(req.x.size());
 
   std::vector<PointWeights> weights(rows);
-  std::vector<double> angles(rows);
-  for (int r = 0; r < rows; ++r) {
-    angles[r] = angle_of(req.w[r]);
-    weights[r] = grid.point_weights(angles[r]);
-  }
+  for (int r = 0; r < rows; ++r) weights[r] = grid.point_weights(angle_of(req.w[r]));
   auto interpolate = [&](const PointWeights& p, const double* full) {
     double v = 0.0;
     for (int k = 0; k < p.size; ++k) v += p.value[k] * full[p.first + k];
@@ -378,7 +374,7 @@ std::string SolveSummary::brief() const {
 
 std::string SolveSummary::full() const {
   std::ostringstream o;
-  o << brief() << "\n  x range [" << x_low << ", " << x_high << "], CVODE relative tolerance " << time_tolerance << "\n";
+  o << brief() << "\n  x range [" << x_low << ", " << x_high << "], CVODE bulk tolerance (coarsest level) " << time_tolerance << "\n";
   for (std::size_t i = 0; i < intervals.size(); ++i)
     o << "  grid " << intervals[i] << ": steps " << steps[i] << ", rhs " << rhs_evals[i] << ", jacobians "
       << jac_evals[i] << ", newton " << newton_iters[i] << ", error-test failures " << error_test_failures[i] << "\n";

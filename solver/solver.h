@@ -66,7 +66,7 @@ struct SolveSummary {
   double x_low = 0, x_high = 0;          // integration range actually used
   std::vector<int> intervals;            // theta intervals per grid level
   std::vector<long> steps, rhs_evals, jac_evals, newton_iters, error_test_failures;
-  double time_tolerance = 0;             // CVODE relative tolerance used
+  double time_tolerance = 0;             // CVODE bulk (absolute) tolerance on the coarsest level
   double observed_order = 0;             // from the last three levels (max norm)
   double nominal_order = 4;
   double max_cdf_error = 0;              // over all requested entries

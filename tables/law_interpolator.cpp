@@ -473,7 +473,6 @@ double LawInterpolator::column_value(const Stencil& s, int col, bool upper) cons
 Estimate LawInterpolator::point(double x, double w, int what) const {
   Stencil s = w_stencil(w);
   const int cell = x_cell(x);
-  const int nx = static_cast<int>(table_.x.size());
   if (s.exact && (x == table_.x[cell] || x == table_.x[cell + 1])) {
     const int j = s.rows[0], i = x == table_.x[cell] ? cell : cell + 1;
     switch (what) {
