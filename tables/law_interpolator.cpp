@@ -183,39 +183,47 @@ LawInterpolator::Stencil LawInterpolator::w_stencil(double w) const {
   const auto& ws = table_.w;
   Stencil s;
   if (std::isnan(w)) throw TableRangeError("w is NaN");
-  bool has_inf = finite_w_ < static_cast<int>(ws.size());
+  const bool has_inf = finite_w_ < static_cast<int>(ws.size());
+  // Rows that take part in interpolation: the finite ones, and in the angle coordinate the
+  // +inf row as well (theta = 0).
+  const int rows = options_.w_in_angle ? static_cast<int>(ws.size()) : finite_w_;
+  auto exact_row = [&](int j) {
+    s.rows = {j};
+    s.exact = true;
+    s.hi = s.lo = s.lo2 = {1.0};
+    return s;
+  };
   if (w == kInf) {
     if (!has_inf) throw TableRangeError("w = +inf requested but the table has no +inf row");
-    s.rows = {static_cast<int>(ws.size()) - 1};
-  } else {
-    if (finite_w_ == 0)
-      throw TableRangeError("w = " + num(w) + " requested but the table holds only the w = +inf row");
-    double lo = ws[0], hi = ws[finite_w_ - 1];
-    if (w < lo || w > hi) {
-      std::string msg = "w = " + num(w) + " is outside the table's range [" + num(lo) + ", " + num(hi) + "]";
-      if (has_inf && w > hi)
-        msg += " (the +inf row is used only for w = +inf exactly; nothing is interpolated between "
-               "the last finite w and +inf)";
-      throw TableRangeError(msg);
-    }
-    auto it = std::lower_bound(ws.begin(), ws.begin() + finite_w_, w);
-    if (*it == w) {
-      s.rows = {static_cast<int>(it - ws.begin())};
-    } else {
-      int cell = static_cast<int>(it - ws.begin()) - 1;
-      int points = std::min(options_.w_points, finite_w_);
-      int start = lagrange::window_start(cell, finite_w_, points);
-      s.rows.resize(points);
-      s.hi.resize(points);
-      s.lo.resize(points);
-      s.lo2.resize(points);
-      for (int k = 0; k < points; ++k) s.rows[k] = start + k;
-      lagrange::weight_pair(ws.data() + start, points, w, s.hi.data(), s.lo.data(), s.lo2.data());
-      return s;
-    }
+    return exact_row(static_cast<int>(ws.size()) - 1);
   }
-  s.exact = true;
-  s.hi = s.lo = s.lo2 = {1.0};
+  if (finite_w_ == 0)
+    throw TableRangeError("w = " + num(w) + " requested but the table holds only the w = +inf row");
+  const double lo = ws[0], hi = ws[rows - 1];
+  if (w < lo || w > hi) {
+    std::string msg = "w = " + num(w) + " is outside the table's range [" + num(lo) + ", " + num(hi) + "]";
+    if (has_inf && w > hi)
+      msg += " (the +inf row is used only for w = +inf exactly; nothing is interpolated between "
+             "the last finite w and +inf)";
+    throw TableRangeError(msg);
+  }
+  auto it = std::lower_bound(ws.begin(), ws.begin() + finite_w_, w);
+  if (it != ws.begin() + finite_w_ && *it == w) return exact_row(static_cast<int>(it - ws.begin()));
+  const int cell = static_cast<int>(it - ws.begin()) - 1;
+  const int points = std::min(options_.w_points, rows);
+  const int start = lagrange::window_start(cell, rows, points);
+  s.rows.resize(points);
+  s.hi.resize(points);
+  s.lo.resize(points);
+  s.lo2.resize(points);
+  std::vector<double> nodes(points);
+  for (int k = 0; k < points; ++k) {
+    s.rows[k] = start + k;
+    // atan2(1, w) is arccot(w) in (0, pi), and 0 at w = +inf.
+    nodes[k] = options_.w_in_angle ? std::atan2(1.0, ws[start + k]) : ws[start + k];
+  }
+  const double t = options_.w_in_angle ? std::atan2(1.0, w) : w;
+  lagrange::weight_pair(nodes.data(), points, t, s.hi.data(), s.lo.data(), s.lo2.data());
   return s;
 }
 

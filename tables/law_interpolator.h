@@ -41,6 +41,12 @@ struct InterpolationOptions {
   // Below this value the cdf (or survival) is interpolated as a logarithm, which keeps
   // the relative accuracy in the tails where absolute errors of ~1e-11 would be ruinous.
   double log_space_below = 0.1;
+  // Interpolate in the angle theta = arccot(w) in (0, pi) instead of in w, with the +inf row
+  // as the node theta = 0, so values between the last finite w and +inf are interpolated
+  // too. For tables whose w nodes are evenly spaced in theta (the law is smooth in theta up
+  // to and including w = +inf; in w it varies like 1/w there and a polynomial in w fits it
+  // badly). Tables written with evenly spaced w keep the default.
+  bool w_in_angle = false;
 
   // Empty when valid, otherwise one line naming the problem.
   std::string check() const;
