@@ -398,4 +398,19 @@ int run_pvalue(const LookupCommand& c) {
   });
 }
 
+int run_pvalue_text(LookupCommand c, const std::string& x) {
+  double value = 0;
+  const int parsed = guarded([&] {
+    try {
+      value = parse_number(x, false);
+    } catch (const DataError& e) {
+      throw UsageError(std::string("--x: ") + e.what());
+    }
+    return exit_code::kOk;
+  });
+  if (parsed != exit_code::kOk) return parsed;
+  c.x = value;
+  return run_pvalue(c);
+}
+
 }  // namespace edgelaw

@@ -85,6 +85,8 @@ int run_table(const TableCommand& c, const Invocation& inv);
 int run_evaluate(const EvaluateCommand& c);
 int run_quantile(const LookupCommand& c);
 int run_pvalue(const LookupCommand& c);
+// run_pvalue with the threshold given as text (--x of the pvalue subcommand).
+int run_pvalue_text(LookupCommand c, const std::string& x);
 int run_sweep(const SweepCommand& c, const Invocation& inv);
 int run_merge(const MergeCommand& c, const Invocation& inv);
 
