@@ -41,7 +41,14 @@ std::string fmt(double v, int digits = 6) {
   return buf;
 }
 
-std::string fmt_est(const Estimate& e) { return fmt(e.value, 10) + " (numerical error " + fmt(e.error, 2) + ")"; }
+// A value whose error reaches zero (or one) is a bracket from beyond the computed region:
+// say so instead of printing digits that mean nothing.
+std::string fmt_est(const Estimate& e) {
+  if (e.value > 0 && e.error >= e.value) return "below " + fmt(e.value + e.error, 2) + " (bounded by the computed region's edge)";
+  if (e.value < 1 && e.value > 0.5 && e.error >= 1 - e.value)
+    return "above " + fmt(e.value - e.error, 8) + " (bounded by the computed region's edge)";
+  return fmt(e.value, 10) + " (numerical error " + fmt(e.error, 2) + ")";
+}
 
 // A number option given as text (so that absence and "inf" can be told apart).
 double number_option(const std::string& text, const char* option, bool allow_inf) {
@@ -433,10 +440,11 @@ int run_interval(const StatsCommand& c) {
     // The observed eigenvalue's x under every spike the inversion may visit (the maps' centre
     // and scale may depend on the spike).
     XRange xs{at.x, at.x};
+    const double u_min = std::atan2(1.0, m.map(m.no_spike()).w), u_max = std::atan2(1.0, w_min);
     for (int k = 0; k <= 64; ++k) {
-      const double u = std::atan2(1.0, w_min) * k / 64;
-      const double w = k == 0 ? kInf : 1.0 / std::tan(u);
-      const double x = edge_coordinates(m, r.observed, m.spike_for_w(w)).x;
+      const double u = u_min + (u_max - u_min) * k / 64;
+      const double spike = k == 0 ? m.no_spike() : m.spike_for_w(1.0 / std::tan(u));
+      const double x = edge_coordinates(m, r.observed, spike).x;
       xs = {std::min(xs.lo, x), std::max(xs.hi, x)};
     }
     const XRange support = law_support(m.beta, w_min);

@@ -169,9 +169,12 @@ SpikeInterval spike_interval(const SpikedModel& m, const EdgeLaw& law, double ei
     const EdgeCoordinates c = edge_coordinates(m, eigenvalue, m.spike_for_w(w));
     return law.cdf(c.x, c.w);
   };
+  // From the no-spike model (whose w need not be +inf at finite n) to the region's strongest.
+  const double u_min = angle_of_w(m.map(m.no_spike()).w);
   const double u_max = angle_of_w(law.w_min());
+  if (!(u_min < u_max)) throw std::invalid_argument("the law's region holds no spike stronger than none");
   auto solve_for = [&](double level) {
-    double lo = 0, hi = u_max;  // g(lo) > level >= g(hi)
+    double lo = u_min, hi = u_max;  // g(lo) > level >= g(hi)
     for (int k = 0; k < 100 && hi - lo > 1e-15; ++k) {
       const double mid = 0.5 * (lo + hi);
       (g(mid).value > level ? lo : hi) = mid;
@@ -181,16 +184,16 @@ SpikeInterval spike_interval(const SpikedModel& m, const EdgeLaw& law, double ei
   // Error of an end: the law's error at it over the slope of g, carried to the spike.
   auto end_error = [&](double u) {
     const double h = 1e-4;
-    const double a = std::max(0.0, u - h), b = std::min(u_max, u + h);
+    const double a = std::max(u_min, u - h), b = std::min(u_max, u + h);
     const double slope = std::abs(g(b).value - g(a).value) / (b - a);
     const double du = slope > 0 ? g(u).error / slope : kInf;
-    const double s_lo = m.spike_for_w(w_of_angle(std::max(0.0, u - du)));
+    const double s_lo = m.spike_for_w(w_of_angle(std::max(u_min, u - du)));
     const double s_hi = m.spike_for_w(w_of_angle(std::min(u_max, u + du)));
     return 0.5 * std::abs(s_hi - s_lo);
   };
   const double upper_level = 1 - alpha / 2, lower_level = alpha / 2;
-  double u_weak = 0;
-  if (g(0).value > upper_level) {
+  double u_weak = u_min;
+  if (g(u_min).value > upper_level) {
     u_weak = solve_for(upper_level);
   } else {
     r.lower_is_no_spike = true;
@@ -203,7 +206,7 @@ SpikeInterval spike_interval(const SpikedModel& m, const EdgeLaw& law, double ei
   }
   r.lower_w = w_of_angle(u_weak);
   r.upper_w = w_of_angle(u_strong);
-  r.lower = m.spike_for_w(r.lower_w);
+  r.lower = r.lower_is_no_spike ? m.no_spike() : m.spike_for_w(r.lower_w);
   r.upper = m.spike_for_w(r.upper_w);
   r.lower_error = r.lower_is_no_spike ? 0.0 : end_error(u_weak);
   r.upper_error = r.upper_open ? 0.0 : end_error(u_strong);

@@ -16,3 +16,9 @@ if(EDGELAW_SYSTEM_PYTHON)
                    --edgelaw $<TARGET_FILE:edgelaw> --workdir ${CMAKE_CURRENT_BINARY_DIR}/cli_sweep_tmp)
   set_tests_properties(cli_sweep_check PROPERTIES LABELS slow TIMEOUT 600)
 endif()
+
+# Statistics subcommands end to end: bad input and commands that must invert each other.
+add_test(NAME cli_stats_check
+         COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_stats_check.sh $<TARGET_FILE:edgelaw>
+                 ${CMAKE_CURRENT_BINARY_DIR}/cli_stats_tmp)
+set_tests_properties(cli_stats_check PROPERTIES LABELS fast TIMEOUT 300)
