@@ -79,6 +79,11 @@ Eigen::MatrixXd parse_matrix_csv(const std::string& text, const std::string& nam
     rows.push_back(std::move(values));
   }
   if (rows.empty()) throw DataMatrixError(name + ": no data rows");
+  const double entries = static_cast<double>(rows.size()) * static_cast<double>(rows.front().size());
+  if (entries > kMaxEntries)
+    throw DataMatrixError(name + ": " + std::to_string(rows.size()) + " x " + std::to_string(rows.front().size()) +
+                          " entries exceed the budget of " + std::to_string(static_cast<long>(kMaxEntries)) +
+                          " (about " + std::to_string(static_cast<long>(kMaxEntries * 8 / 1048576)) + " MiB); reduce the data first");
   Eigen::MatrixXd m(static_cast<Eigen::Index>(rows.size()), static_cast<Eigen::Index>(rows.front().size()));
   for (Eigen::Index i = 0; i < m.rows(); ++i)
     for (Eigen::Index j = 0; j < m.cols(); ++j) m(i, j) = rows[i][j];
@@ -90,6 +95,10 @@ CovarianceData covariance_data(const Eigen::MatrixXd& x, bool centre) {
   if (x.cols() < 2) throw DataMatrixError("a covariance test needs at least 2 variables (columns), got " + std::to_string(x.cols()));
   if (centre && x.rows() < 3)
     throw DataMatrixError("centring the columns leaves " + std::to_string(x.rows() - 1) + " degree of freedom; at least 3 samples are needed");
+  if (std::min(x.rows(), x.cols()) > kMaxGramSize)
+    throw DataMatrixError("the Gram matrix would be " + std::to_string(std::min(x.rows(), x.cols())) + " x " +
+                          std::to_string(std::min(x.rows(), x.cols())) + "; eigenvalues beyond " + std::to_string(kMaxGramSize) +
+                          " x " + std::to_string(kMaxGramSize) + " (minutes of O(m^3) work) are refused: give --eigenvalue instead");
   Eigen::MatrixXd xc = x;
   if (centre) xc.rowwise() -= x.colwise().mean();
   CovarianceData d;
@@ -111,6 +120,9 @@ SymmetricData symmetric_data(const Eigen::MatrixXd& a) {
   if (a.rows() != a.cols())
     throw DataMatrixError("a symmetric matrix is needed, got " + std::to_string(a.rows()) + " rows and " + std::to_string(a.cols()) + " columns");
   if (a.rows() < 2) throw DataMatrixError("the matrix must be at least 2 x 2");
+  if (a.rows() > kMaxGramSize)
+    throw DataMatrixError("a " + std::to_string(a.rows()) + " x " + std::to_string(a.rows()) + " eigenproblem is beyond the " +
+                          std::to_string(kMaxGramSize) + " x " + std::to_string(kMaxGramSize) + " budget: give --eigenvalue instead");
   const double scale = a.cwiseAbs().maxCoeff();
   const double asym = (a - a.transpose()).cwiseAbs().maxCoeff();
   if (asym > 1e-9 * scale)

@@ -15,6 +15,11 @@ struct DataMatrixError : std::runtime_error {
   using std::runtime_error::runtime_error;
 };
 
+// Resource bounds, refused up front: a data file of more entries (~200 MiB of doubles), and
+// symmetric eigenproblems larger than this (O(m^3): about a minute at 5000 on one core).
+inline constexpr double kMaxEntries = 2.5e7;
+inline constexpr long kMaxGramSize = 5000;
+
 // Parses CSV text into a matrix: comma-separated numbers, one row per line; blank lines and
 // lines starting with '#' are skipped; a first row in which no field is a number is taken as
 // column names. Non-numeric, non-finite or missing fields and ragged rows are errors.
