@@ -77,13 +77,13 @@ Eigen::MatrixXd parse_matrix_csv(const std::string& text, const std::string& nam
       throw DataMatrixError(name + ": line " + std::to_string(line_no) + " has " + std::to_string(values.size()) +
                             " fields, the first data row has " + std::to_string(rows.front().size()));
     rows.push_back(std::move(values));
+    // Checked while reading, so an oversized file is refused before it fills the memory.
+    if (static_cast<double>(rows.size()) * static_cast<double>(rows.front().size()) > kMaxEntries)
+      throw DataMatrixError(name + ": more than " + std::to_string(static_cast<long>(kMaxEntries)) + " entries (about " +
+                            std::to_string(static_cast<long>(kMaxEntries * 8 / 1048576)) +
+                            " MiB), beyond the budget; reduce the data first");
   }
   if (rows.empty()) throw DataMatrixError(name + ": no data rows");
-  const double entries = static_cast<double>(rows.size()) * static_cast<double>(rows.front().size());
-  if (entries > kMaxEntries)
-    throw DataMatrixError(name + ": " + std::to_string(rows.size()) + " x " + std::to_string(rows.front().size()) +
-                          " entries exceed the budget of " + std::to_string(static_cast<long>(kMaxEntries)) +
-                          " (about " + std::to_string(static_cast<long>(kMaxEntries * 8 / 1048576)) + " MiB); reduce the data first");
   Eigen::MatrixXd m(static_cast<Eigen::Index>(rows.size()), static_cast<Eigen::Index>(rows.front().size()));
   for (Eigen::Index i = 0; i < m.rows(); ++i)
     for (Eigen::Index j = 0; j < m.cols(); ++j) m(i, j) = rows[i][j];
