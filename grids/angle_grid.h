@@ -38,12 +38,15 @@ class AngleGrid {
   double theta(int i) const { return theta_[i]; }
   std::span<const double> nodes() const { return theta_; }
 
-  // Fourth-order first-derivative stencils biased one node toward the upwind side: "plus" takes
-  // its extra node from larger theta (use where the drift a > 0), "minus" from smaller theta.
-  // Stencils are shifted inward at the ends; they may touch the Dirichlet node N.
+  // Order of the difference stencils (and of the semi-discrete scheme).
+  static constexpr int kOrder = 6;
+  // Sixth-order first-derivative stencils (7 points) biased one node toward the upwind side:
+  // "plus" takes its extra node from larger theta (use where the drift a > 0), "minus" from
+  // smaller theta. Stencils are shifted inward at theta = 0; the last three nodes before the
+  // Dirichlet node N (which they may touch) use lower-order stable closures (angle_grid.cpp).
   const Stencil& first_plus(int i) const { return first_plus_[i]; }
   const Stencil& first_minus(int i) const { return first_minus_[i]; }
-  // Fourth-order second-derivative stencil (central, six-point shifted near the ends).
+  // Sixth-order second-derivative stencil (7-point central, 8-point shifted near the ends).
   const Stencil& second(int i) const { return second_[i]; }
 
   // Degree-7 interpolation through the 8 nodes nearest to theta (theta in [0, pi]).

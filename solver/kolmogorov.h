@@ -22,8 +22,10 @@ class KolmogorovOperator {
   KolmogorovOperator(double beta, const AngleGrid& grid);
 
   int unknowns() const { return grid_.intervals(); }  // nodes 0..N-1; node N is fixed
-  static constexpr int kLowerBand = 4;
-  static constexpr int kUpperBand = 5;
+  // Band of the Jacobian: the sixth-order stencils reach 6 nodes below (second derivative
+  // shifted at the last node) and 7 above (shifted at node 0).
+  static constexpr int kLowerBand = 6;
+  static constexpr int kUpperBand = 7;
 
   // du = dF/dx at the unknowns for the state u (size N) with the Dirichlet value at node N.
   void rhs(double x, const double* u, double boundary, double* du) const;

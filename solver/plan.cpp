@@ -36,6 +36,13 @@ double Plan::grid_density(double theta) const {
   return 1.0 + front_weight * share;
 }
 
+double Plan::bulk_tolerance_at(int level) const {
+  return std::min(bulk_tolerance * std::pow(16.0, -level), bulk_cap);
+}
+double Plan::tail_relative_at(int level) const {
+  return std::min(tail_relative * std::pow(16.0, -level), tail_relative_cap);
+}
+
 double Plan::moment_centre(double w) const {
   // Supercritical laws sit near w^2 (design notes, section 1); others near the TW scale.
   if (w < 0) return w * w;
@@ -61,11 +68,24 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
     plan.base_intervals = options.base_intervals;
   } else {
     // Front widths in theta shrink like beta^{-1/2}, but the levels added on demand take care
-    // of that; a base growing like beta^{1/4} from the 400 intervals that suit beta = 2 keeps
-    // large beta affordable (beta = 100 with a quarter of 400 sqrt(beta/2) converged to 1e-7).
-    plan.base_intervals = static_cast<int>(std::ceil(400.0 * std::max(1.0, std::pow(beta / 2.0, 0.25)) / 8.0) * 8);
+    // of that; a base growing like beta^{1/4} from the 200 intervals that suit beta = 2 with
+    // the sixth-order stencils (400 with the former fourth-order ones) keeps large beta
+    // affordable (beta = 100 with a quarter of 400 sqrt(beta/2) converged to 1e-7 at fourth order).
+    plan.base_intervals = static_cast<int>(std::ceil(200.0 * std::max(1.0, std::pow(beta / 2.0, 0.25)) / 8.0) * 8);
   }
-  plan.front_until = x_top + 1.0;
+  // The front must be resolved over the whole integration, not only the requested x: errors
+  // made above x_top are carried down (measured on the default table with the fourth-order
+  // stencils: the largest estimate sat at w ~ -4, x = 8 and fell from 6.0e-9 to 2.2e-9 when the
+  // grid followed the front up to x_high instead of x_top + 1).
+  plan.front_until = plan.x_high;
+  // The integrator's share of the estimate is time_error_factor times the finest tolerance:
+  // cap the tolerances so that it is a quarter of the target on every level. The level
+  // differences cannot be relied on to show time errors: with the sixth-order scheme they are
+  // divided by 2^p - 1 ~ 55 (measured with the former factor 64 and tolerance 9.8e-13: errors of
+  // 4.6e-10 under estimates of 1e-10). Below the integrator's own floor (time_error_floor) a
+  // tighter tolerance buys nothing.
+  plan.bulk_cap = std::max(options.target_error / 4.0, plan.time_error_floor) / plan.time_error_factor;
+  plan.tail_relative_cap = options.tail_relative_error / (4.0 * plan.time_error_factor);
   return plan;
 }
 

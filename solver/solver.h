@@ -68,7 +68,7 @@ struct SolveSummary {
   std::vector<long> steps, rhs_evals, jac_evals, newton_iters, error_test_failures;
   double time_tolerance = 0;             // CVODE bulk (absolute) tolerance on the coarsest level
   double observed_order = 0;             // from the last three levels (max norm)
-  double nominal_order = 4;
+  double nominal_order = 6;              // order of the difference stencils
   double max_cdf_error = 0;              // over all requested entries
   double max_survival_error = 0;
   double max_tail_relative_error = 0;    // over the tail entries that are certified

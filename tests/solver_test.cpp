@@ -30,9 +30,10 @@ LawTable* Beta2::table_ = nullptr;
 
 TEST_F(Beta2, Converged) {
   EXPECT_TRUE(t().summary.converged) << t().summary.full();
-  // The scheme is fourth order (design notes, section 2: the prototype observed 4 to 5).
-  EXPECT_GT(t().summary.observed_order, 3.0) << t().summary.full();
-  EXPECT_LT(t().summary.observed_order, 5.5) << t().summary.full();
+  // The stencils are sixth order (tests/grids_test.cpp); measured 5.8 on this table. Below 5
+  // would mean a lower-order part (a boundary closure, the interpolation) dominates.
+  EXPECT_GT(t().summary.observed_order, 5.0) << t().summary.full();
+  EXPECT_LT(t().summary.observed_order, 6.8) << t().summary.full();
 }
 
 // Baik, Ben Arous, Peche (2005) rank-one formula by Bornemann's (2010) quadrature method, on
