@@ -1,6 +1,8 @@
 // Temporary-file-and-rename writer (POSIX).
 #include "cli/atomic_file.h"
 
+#include "tables/temporary_files.h"
+
 #include <fcntl.h>
 #include <sys/stat.h>
 #include <unistd.h>
@@ -17,10 +19,15 @@ void write_file_atomically(const std::string& path, const std::string& text) {
   std::string temp = (dir / ("." + target.filename().string() + ".tmpXXXXXX")).string();
   const int fd = mkstemp(temp.data());
   if (fd < 0) throw OutputError("cannot create a file in " + dir.string() + ": " + std::strerror(errno));
+  register_temporary(temp);  // an interrupt from now on removes it
+  auto discard = [&] {
+    ::unlink(temp.c_str());
+    unregister_temporary(temp);
+  };
   auto fail = [&](const char* what) {
     const std::string reason = std::strerror(errno);
     ::close(fd);
-    ::unlink(temp.c_str());
+    discard();
     throw OutputError(std::string("cannot write ") + path + " (" + what + "): " + reason);
   };
   std::size_t done = 0;
@@ -34,13 +41,13 @@ void write_file_atomically(const std::string& path, const std::string& text) {
   }
   if (::fchmod(fd, 0644) != 0 || ::fsync(fd) != 0) fail("fsync");
   if (::close(fd) != 0) {
-    ::unlink(temp.c_str());
-    throw OutputError("cannot write " + path + " (close): " + std::strerror(errno));
-  }
-  if (::rename(temp.c_str(), path.c_str()) != 0) {
     const std::string reason = std::strerror(errno);
-    ::unlink(temp.c_str());
-    throw OutputError("cannot write " + path + " (rename): " + reason);
+    discard();
+    throw OutputError("cannot write " + path + " (close): " + reason);
+  }
+  if (const int err = commit_temporary(temp, path); err != 0) {
+    discard();
+    throw OutputError("cannot write " + path + " (rename): " + std::strerror(err));
   }
   if (const int dfd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY); dfd >= 0) {
     ::fsync(dfd);

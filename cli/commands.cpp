@@ -49,6 +49,8 @@ int guarded(const std::function<int()>& body) {
     return fail(e, exit_code::kCannotCreate);
   } catch (const TableWriteError& e) {
     return fail(e, exit_code::kCannotCreate);
+  } catch (const OverBudgetError& e) {
+    return fail(e, exit_code::kOverBudget);
   } catch (const SolveError& e) {
     return fail(e, exit_code::kSoftware);
   } catch (const std::exception& e) {
@@ -236,6 +238,8 @@ int run_table(const TableCommand& c, const Invocation& inv) {
     LawRequest req = grid_request(c.grid);
     req.beta = c.beta;
     const SolverOptions opt = grid_solver_options(c.grid);
+    check_memory_budget("the table", double(req.x.size()) * double(req.w.size()), opt.max_levels, 1, 0,
+                        c.grid.max_memory_mib);
     if (auto why = check_request(req); !why.empty()) throw UsageError(why);
     check_output_path(c.output);  // before minutes of solving, not after
     LawTable t = solve_law(req, opt);
@@ -282,9 +286,12 @@ int run_evaluate(const EvaluateCommand& c) {
     if (c.input == "-") {
       text.assign(std::istreambuf_iterator<char>(std::cin), {});
     } else {
+      std::error_code ec;
+      if (std::filesystem::is_directory(c.input, ec)) throw NoInputError("cannot read input file " + c.input + ": it is a folder");
       std::ifstream in(c.input, std::ios::binary);
       if (!in) throw NoInputError("cannot read input file " + c.input);
       text.assign(std::istreambuf_iterator<char>(in), {});
+      if (in.bad()) throw NoInputError("cannot read input file " + c.input + ": read error");
     }
     std::vector<Point> points;
     try {
@@ -309,6 +316,20 @@ int run_evaluate(const EvaluateCommand& c) {
       // One solve per beta serves all its points: the table over its distinct x and w.
       std::map<double, std::vector<std::size_t>> by_beta;
       for (std::size_t i = 0; i < points.size(); ++i) by_beta[points[i].beta].push_back(i);
+      // Every solve is checked against the budget before the first one starts.
+      for (const auto& [beta, members] : by_beta) {
+        std::vector<double> xs, ws;
+        for (auto i : members) {
+          xs.push_back(points[i].x);
+          ws.push_back(points[i].w);
+        }
+        std::sort(xs.begin(), xs.end());
+        std::sort(ws.begin(), ws.end());
+        const double entries = double(std::unique(xs.begin(), xs.end()) - xs.begin()) *
+                               double(std::unique(ws.begin(), ws.end()) - ws.begin());
+        check_memory_budget(c.input + ": the solve for beta " + format_double(beta), entries, opt.max_levels, 1, 0,
+                            c.max_memory_mib);
+      }
       for (const auto& [beta, members] : by_beta) {
         LawRequest req;
         req.beta = beta;

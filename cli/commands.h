@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "cli/budget.h"
 #include "solver/solver.h"
 #include "tables/table_file.h"
 
@@ -39,6 +40,8 @@ struct GridOptions {
   int max_levels = SolverOptions{}.max_levels;  // grid halvings allowed before giving up
   // Write files whose solve missed the target (marked converged = 0) instead of failing.
   bool keep_unconverged = false;
+  // Requests whose memory estimate (cli/budget.h) exceeds this are refused before solving.
+  double max_memory_mib = kDefaultMemoryBudgetMiB;
 };
 
 struct TableCommand {
@@ -52,6 +55,7 @@ struct EvaluateCommand {
   std::string output;  // CSV; empty or "-" = stdout
   std::string table;   // HDF5 table to answer from; empty: solve
   double target = 1e-8;
+  double max_memory_mib = kDefaultMemoryBudgetMiB;
 };
 
 // quantile and pvalue: one number with its error, from a table or from a solve.

@@ -1,10 +1,12 @@
 // edgelaw command line: parses options and hands them to the subcommands (commands.cpp, sweep.cpp).
 #include <CLI/CLI.hpp>
+#include <hdf5.h>
 
 #include <iostream>
 
 #include "cli/commands.h"
 #include "cli/exit_codes.h"
+#include "cli/interrupt.h"
 #include "cli/stats_commands.h"
 
 namespace {
@@ -25,6 +27,8 @@ void add_grid_options(CLI::App* app, edgelaw::GridOptions& g) {
       ->capture_default_str();
   app->add_flag("--keep-unconverged", g.keep_unconverged,
                 "Write the file even if the target is missed (marked converged = 0)");
+  app->add_option("--max-memory", g.max_memory_mib, "Refuse requests estimated to need more MiB than this")
+      ->capture_default_str();
 }
 
 void add_lookup_options(CLI::App* app, edgelaw::LookupCommand& c) {
@@ -80,6 +84,10 @@ bool settle_spike(edgelaw::StatsCommand& c, const std::string& w_text) {
 }  // namespace
 
 int main(int argc, char** argv) {
+  edgelaw::install_interrupt_cleanup();  // SIGINT, SIGTERM, SIGHUP: remove temporaries, exit 128 + signal
+  // Every file is closed before exit; HDF5 1.10.8's shutdown would print "infinite loop closing
+  // library" after a damaged file failed a checksum (it loses a cache block), so skip it.
+  H5dont_atexit();
   CLI::App app{"edgelaw: the spiked edge law F_beta(x; w) of random-matrix theory, certified by a PDE solve"};
   app.set_version_flag("--version", std::string("edgelaw ") + EDGELAW_VERSION);
   app.require_subcommand(1);
@@ -98,6 +106,8 @@ int main(int argc, char** argv) {
   e->add_option("--output", evaluate.output, "Output CSV (default: standard output)");
   e->add_option("--table", evaluate.table, "Answer from this table file instead of solving");
   e->add_option("--target", evaluate.target, "Largest accepted estimated error of a solve")->capture_default_str();
+  e->add_option("--max-memory", evaluate.max_memory_mib, "Refuse solves estimated to need more MiB than this")
+      ->capture_default_str();
 
   edgelaw::LookupCommand quantile;
   auto* q = app.add_subcommand("quantile", "The threshold x with F_beta(x; w) = probability");

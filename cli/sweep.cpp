@@ -14,9 +14,15 @@
 #include <sstream>
 #include <thread>
 
+#include <signal.h>
+
+#include <cerrno>
+#include <cstdlib>
+
 #include "cli/atomic_file.h"
 #include "cli/commands.h"
 #include "cli/exit_codes.h"
+#include "cli/interrupt.h"
 #include "cli/points_csv.h"
 
 namespace edgelaw {
@@ -49,6 +55,8 @@ std::vector<double> beta_range(double first, double last, int count) {
   if (!std::isfinite(first) || !std::isfinite(last) || !(first > 0))
     throw UsageError("beta range must be finite and positive (--beta-min " + format_double(first) + ")");
   if (count < 1) throw UsageError("--beta-count must be at least 1");
+  // Each beta is a full table solve (seconds to minutes): beyond this it is a typo.
+  if (count > 10000) throw UsageError("--beta-count must be at most 10000, got " + std::to_string(count));
   if (count == 1) {
     if (first != last) throw UsageError("--beta-count 1 needs --beta-min equal to --beta-max");
     return {first};
@@ -130,12 +138,17 @@ double worst_error(const std::vector<LawTable>& tables) {
   return e;
 }
 
-// Removes the temporaries a killed writer leaves behind (".<name>.tmp-<pid>-<n>").
+// Removes the temporaries a killed writer leaves behind (".<name>.tmp-<pid>-<n>"), but not
+// those of a writer that is still running (another sweep started on the same output).
 void remove_stale_temporaries(const fs::path& dir) {
   std::error_code ec;
   for (const auto& entry : fs::directory_iterator(dir, ec)) {
     const std::string name = entry.path().filename().string();
-    if (name.size() > 1 && name[0] == '.' && name.find(".tmp") != std::string::npos) fs::remove(entry.path(), ec);
+    const auto at = name.find(".tmp-");
+    if (name.size() < 2 || name[0] != '.' || at == std::string::npos) continue;
+    const long pid = std::atol(name.c_str() + at + 5);
+    if (pid > 0 && (::kill(static_cast<pid_t>(pid), 0) == 0 || errno == EPERM)) continue;  // alive
+    fs::remove(entry.path(), ec);
   }
 }
 
@@ -155,6 +168,10 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
       base.beta = b;
       if (auto why = check_request(base); !why.empty()) throw UsageError("beta " + format_double(b) + ": " + why);
     }
+    const unsigned cores = std::max(1u, std::thread::hardware_concurrency());
+    check_memory_budget("the sweep", double(base.x.size()) * double(base.w.size()), opt.max_levels,
+                        std::min<std::size_t>(mine.size(), c.threads > 0 ? c.threads : cores), mine.size(),
+                        c.grid.max_memory_mib);
     check_output_path(c.output);
     const std::map<std::string, SettingValue> slice_settings = grid_settings(c.grid);
     const std::string history = make_history_line("edgelaw", inv.version, inv.argc, inv.argv);
@@ -194,7 +211,7 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
     if (reused > 0) std::cerr << "edgelaw: sweep: " << reused << " of " << mine.size() << " betas reused from " << parts_dir.string() << "\n";
 
     // Workers take the next beta; every finished slice is on disk before it counts as done.
-    const unsigned cores = std::max(1u, std::thread::hardware_concurrency());
+    set_interrupt_note("finished betas stay in " + parts_dir.string() + "; run the same command again to resume");
     const std::size_t workers = std::min<std::size_t>(todo.size(), c.threads > 0 ? c.threads : cores);
     std::atomic<std::size_t> next{0};
     std::atomic<bool> stop{false};
@@ -258,6 +275,7 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
     meta.settings["betas"] = beta_list_text(betas);
     if (part.count > 1) meta.settings["part"] = std::to_string(part.index) + "/" + std::to_string(part.count);
     write_sweep_table(c.output, tables, meta);
+    set_interrupt_note("");
     fs::remove_all(parts_dir, ec);
     if (ec) std::cerr << "edgelaw: warning: could not remove " << parts_dir.string() << ": " << ec.message() << "\n";
 

@@ -233,11 +233,12 @@ std::string SolverOptions::check() const {
   if (!(target_error >= 5e-11 && target_error < 0.1))
     return "target error must be in [5e-11, 0.1): the time integration cannot certify less than 5e-11";
   if (!(tail_relative_error > 0 && tail_relative_error < 1)) return "tail relative error must be in (0, 1)";
+  // Levels first: the finest-grid check below shifts by max_levels - 1.
+  if (min_levels < 3 || max_levels < min_levels || max_levels > 8)
+    return "grid levels must satisfy 3 <= min_levels <= max_levels <= 8";
   // The finest level has base * 2^(levels-1) intervals; beyond ~1e5 a solve takes hours.
   if (base_intervals != 0 && (base_intervals < 16 || (static_cast<double>(base_intervals) * (1 << (max_levels - 1))) > 2e5))
     return "base grid must have at least 16 intervals and at most 2e5 on the finest level (or 0 for automatic)";
-  if (min_levels < 3 || max_levels < min_levels || max_levels > 8)
-    return "grid levels must satisfy 3 <= min_levels <= max_levels <= 8";
   if (!(max_work > 0)) return "work budget must be positive";
   return {};
 }

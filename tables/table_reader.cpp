@@ -1,5 +1,6 @@
 // Reads and validates law and sweep table files, and evaluates them across beta.
 #include "tables/table_file.h"
+#include "tables/table_seal.h"
 
 #include "tables/lagrange.h"
 #include "tables/summary_fields.h"
@@ -66,6 +67,53 @@ std::vector<double> get_dataset(hid_t file, const std::string& name, const std::
   Hdf5Handle ds(H5Dopen2(file, name.c_str(), H5P_DEFAULT), "H5Dopen2");
   Hdf5Handle type(H5Dget_type(ds.get()), "H5Dget_type");
   if (H5Tget_class(type.get()) != H5T_FLOAT) throw TableFormatError("dataset '" + name + "' is not floating point");
+  // Only the layout the writer makes is read: IEEE float64 little endian, chunked, each chunk
+  // with a Fletcher-32 checksum. Anything else would send HDF5 down conversion and unfiltered
+  // chunk paths where HDF5 1.10.8 reads past its buffers on damaged files (found by
+  // tests/fuzz/table_reader_fuzz); with the checksum a damaged chunk fails cleanly.
+  if (h5_check(H5Tequal(type.get(), H5T_IEEE_F64LE), "H5Tequal") <= 0)
+    throw TableFormatError("dataset '" + name + "' is not IEEE float64 little endian");
+  {
+    Hdf5Handle dcpl(H5Dget_create_plist(ds.get()), "H5Dget_create_plist");
+    unsigned flags = 0;
+    std::size_t nvalues = 0;
+    unsigned filter_config = 0;
+    if (H5Pget_layout(dcpl.get()) != H5D_CHUNKED ||
+        H5Pget_filter_by_id2(dcpl.get(), H5Z_FILTER_FLETCHER32, &flags, &nvalues, nullptr, 0, nullptr,
+                             &filter_config) < 0) {
+      hdf5_error_reason();  // clears the stack of the failed filter query
+      throw TableFormatError("dataset '" + name + "' is not chunked with a Fletcher-32 checksum");
+    }
+    // Every chunk must be stored, inside the file, with exactly its data and the 4-byte
+    // checksum; a damaged chunk index otherwise makes HDF5 allocate what it says (up to 4 GiB).
+    Hdf5Handle fspace(H5Dget_space(ds.get()), "H5Dget_space");
+    const int rank = h5_check(H5Sget_simple_extent_ndims(fspace.get()), "H5Sget_simple_extent_ndims");
+    std::vector<hsize_t> dims(static_cast<std::size_t>(std::max(rank, 0))), chunk(dims.size());
+    h5_check(H5Sget_simple_extent_dims(fspace.get(), dims.data(), nullptr), "H5Sget_simple_extent_dims");
+    if (rank < 1 || H5Pget_chunk(dcpl.get(), rank, chunk.data()) != rank)
+      throw TableFormatError("dataset '" + name + "' has an unreadable chunk layout");
+    hsize_t expected_chunks = 1, chunk_values = 1;
+    for (int k = 0; k < rank; ++k) {
+      if (chunk[k] == 0) throw TableFormatError("dataset '" + name + "' has an empty chunk");
+      expected_chunks *= (dims[k] + chunk[k] - 1) / chunk[k];
+      chunk_values *= chunk[k];
+    }
+    hsize_t chunks = 0, file_size = 0;
+    h5_check(H5Dget_num_chunks(ds.get(), fspace.get(), &chunks), "H5Dget_num_chunks");
+    h5_check(H5Fget_filesize(file, &file_size), "H5Fget_filesize");
+    if (chunks != expected_chunks)
+      throw TableFormatError("dataset '" + name + "' has " + std::to_string(chunks) + " stored chunks, expected " +
+                             std::to_string(expected_chunks) + " (damaged file)");
+    for (hsize_t i = 0; i < chunks; ++i) {
+      unsigned mask = 0;
+      haddr_t addr = 0;
+      hsize_t size = 0;
+      h5_check(H5Dget_chunk_info(ds.get(), fspace.get(), i, nullptr, &mask, &addr, &size), "H5Dget_chunk_info");
+      if (mask != 0 || size != chunk_values * 8 + 4 || addr > file_size || size > file_size - addr)
+        throw TableFormatError("dataset '" + name + "' has a damaged chunk index (chunk " + std::to_string(i) +
+                               ": " + std::to_string(size) + " bytes)");
+    }
+  }
   Hdf5Handle space(H5Dget_space(ds.get()), "H5Dget_space");
   const int rank = h5_check(H5Sget_simple_extent_ndims(space.get()), "H5Sget_simple_extent_ndims");
   std::vector<hsize_t> dims(static_cast<std::size_t>(std::max(rank, 0)));
@@ -179,9 +227,19 @@ LawTableFile LawTableFile::open(const std::string& path, InterpolationOptions op
   LawTableFile out;
   out.path_ = path;
   try {
+    // The integrity header first: HDF5 parses only files whose contents are as written.
+    const SealCheck seal = check_table_seal(path);
+    if (seal == SealCheck::kMismatch)
+      throw fail("is truncated or damaged (its contents do not match the CRC-32 and size in its header)");
     const htri_t is_hdf5 = H5Fis_hdf5(path.c_str());
     if (is_hdf5 <= 0) throw fail("is not an HDF5 file" + (is_hdf5 < 0 ? ": " + hdf5_error_reason() : std::string()));
-    const hid_t id = H5Fopen(path.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
+    if (seal == SealCheck::kAbsent)
+      throw fail("is not an edgelaw table (HDF5 without the edgelaw integrity header)");
+    // No HDF5 file locking (see FORMAT.md, "Concurrent access"): consistency comes from the
+    // writers' rename, and flock fails on some network file systems.
+    Hdf5Handle fapl(H5Pcreate(H5P_FILE_ACCESS), "H5Pcreate");
+    h5_check(H5Pset_file_locking(fapl.get(), false, true), "H5Pset_file_locking");
+    const hid_t id = H5Fopen(path.c_str(), H5F_ACC_RDONLY, fapl.get());
     if (id < 0) throw fail("cannot be opened as HDF5 (truncated or damaged?): " + hdf5_error_reason());
     Hdf5Handle file(id, "H5Fopen");
     const hid_t f = file.get();

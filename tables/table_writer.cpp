@@ -1,6 +1,8 @@
 // Writes law and sweep tables as netCDF-4 compatible HDF5, atomically (see tables/FORMAT.md).
 #include "tables/table_file.h"
+#include "tables/table_seal.h"
 #include "tables/summary_fields.h"
+#include "tables/temporary_files.h"
 
 #include <hdf5_hl.h>
 
@@ -325,25 +327,34 @@ void write_file(const std::string& path, const std::vector<LawTable>& tables, bo
              "H5Pset_link_creation_order");
     h5_check(H5Pset_attr_creation_order(fcpl.get(), H5P_CRT_ORDER_TRACKED | H5P_CRT_ORDER_INDEXED),
              "H5Pset_attr_creation_order");
+    h5_check(H5Pset_userblock(fcpl.get(), kTableUserBlock), "H5Pset_userblock");  // the integrity header
     Hdf5Handle fapl(H5Pcreate(H5P_FILE_ACCESS), "H5Pcreate");
     // v1.8 object format: readable by every netCDF-4 and HDF5 >= 1.8 consumer.
     h5_check(H5Pset_libver_bounds(fapl.get(), H5F_LIBVER_V18, H5F_LIBVER_V18), "H5Pset_libver_bounds");
+    // No file locking: the temporary has a unique name and nobody else opens it (FORMAT.md).
+    h5_check(H5Pset_file_locking(fapl.get(), false, true), "H5Pset_file_locking");
+    register_temporary(tmp.string());  // an interrupt from now on removes it
+    created = true;
     hid_t id = H5Fcreate(tmp.c_str(), H5F_ACC_EXCL, fcpl.get(), fapl.get());
     if (id < 0)
       throw TableWriteError("cannot create '" + tmp.string() + "' (is the folder writable?): " + hdf5_error_reason());
-    created = true;
     Hdf5Handle file(id, "H5Fcreate");
     run_hook("created");
     write_contents(file.get(), tables, sweep, meta, options);
     h5_check(H5Fflush(file.get(), H5F_SCOPE_GLOBAL), "H5Fflush");
     file.close();
     run_hook("closed");
+    seal_table_file(tmp.string());
     fsync_path(tmp.string(), false);
-    fs::rename(tmp, target);  // throws filesystem_error; caught below
+    if (const int err = commit_temporary(tmp.string(), target.string()); err != 0)
+      throw TableWriteError("cannot rename '" + tmp.string() + "' to '" + path + "': " + std::generic_category().message(err));
     created = false;
     fsync_path(dir.string(), true);
   } catch (const std::exception& e) {
-    if (created) fs::remove(tmp, ec);
+    if (created) {
+      fs::remove(tmp, ec);
+      unregister_temporary(tmp.string());
+    }
     if (dynamic_cast<const TableError*>(&e) && !dynamic_cast<const Hdf5Error*>(&e)) throw;
     throw TableWriteError("writing '" + path + "' failed: " + e.what());
   }

@@ -22,3 +22,14 @@ add_test(NAME cli_stats_check
          COMMAND bash ${CMAKE_CURRENT_SOURCE_DIR}/cli_stats_check.sh $<TARGET_FILE:edgelaw>
                  ${CMAKE_CURRENT_BINARY_DIR}/cli_stats_tmp)
 set_tests_properties(cli_stats_check PROPERTIES LABELS fast TIMEOUT 300)
+
+# Interrupted work (SIGINT, SIGTERM, SIGKILL during a solve, a write and a sweep) and
+# concurrent use (two sweeps at once, a reader while the table is replaced).
+if(EDGELAW_SYSTEM_PYTHON)
+  foreach(check cli_interrupt_check cli_concurrency_check)
+    add_test(NAME ${check}
+             COMMAND ${EDGELAW_SYSTEM_PYTHON} ${CMAKE_CURRENT_SOURCE_DIR}/${check}.py
+                     --edgelaw $<TARGET_FILE:edgelaw> --workdir ${CMAKE_CURRENT_BINARY_DIR}/${check}_tmp)
+    set_tests_properties(${check} PROPERTIES LABELS fast TIMEOUT 600)
+  endforeach()
+endif()

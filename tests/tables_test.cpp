@@ -1,6 +1,7 @@
 // Tests of the tables library: file round trip, validation of bad files, atomic writes,
 // interpolation accuracy against a closed-form Gaussian family, and range errors.
 #include "tables/table_file.h"
+#include "tables/table_seal.h"
 
 #include <gtest/gtest.h>
 #include <hdf5.h>
@@ -142,6 +143,7 @@ void overwrite_dataset(const std::string& path, const char* name, const std::fun
   H5Sclose(s);
   H5Dclose(d);
   H5Fclose(f);
+  seal_table_file(path);  // a deliberate edit: the integrity header is made to match again
 }
 
 std::vector<char> slurp(const std::string& path) {
@@ -373,6 +375,16 @@ TEST_F(TablesTest, DamagedAndForeignFilesGiveOneClearError) {
   expect_error<TableFormatError>([&] { LawTableFile::open(file("swapped.h5")); }, "is not the logarithm");
 }
 
+TEST_F(TablesTest, FilesWithoutChecksumsAreRefused) {
+  // The reader only reads the writer's layout (chunked, Fletcher-32); without the checksum a
+  // damaged chunk index sends HDF5 1.10.8 past its buffers (tests/fuzz/table_reader_fuzz).
+  TableWriteOptions plain;
+  plain.checksums = false;
+  write_table(file("plain.h5"), small_table(), small_metadata(), plain);
+  expect_error<TableFormatError>([&] { LawTableFile::open(file("plain.h5")); },
+                                 "is not chunked with a Fletcher-32 checksum");
+}
+
 TEST_F(TablesTest, ChecksumDetectsOneFlippedBit) {
   // Fletcher-32 detects every single-bit error in a chunk (Fletcher, IEEE Trans. Commun. 30
   // (1982)); the flipped bit is located by searching the file for one cdf row's bytes.
@@ -386,7 +398,27 @@ TEST_F(TablesTest, ChecksumDetectsOneFlippedBit) {
   ASSERT_EQ(std::search(it + 1, bytes.end(), row + 800, row + 800 + len), bytes.end()) << "pattern not unique";
   *(it + 100) ^= 0x10;
   spill(file("flipped.h5"), bytes);
+  // First line of defence: the CRC-32 of the integrity header (CRC-32 detects every burst
+  // error up to 32 bits; Peterson & Brown, Proc. IRE 49 (1961)), before HDF5 reads anything.
+  expect_error<TableFormatError>([&] { LawTableFile::open(file("flipped.h5")); }, "is truncated or damaged");
+  // Second: with the header recomputed, HDF5's Fletcher-32 on the chunk still refuses it.
+  seal_table_file(file("flipped.h5"));
   expect_error<TableFormatError>([&] { LawTableFile::open(file("flipped.h5")); }, "dataset 'cdf' cannot be read (checksum");
+}
+
+TEST_F(TablesTest, IntegrityHeaderCoversEveryByte) {
+  // Any change after the header, and a truncation by one byte, is refused before HDF5 runs.
+  write_table(file("law.h5"), small_table(), small_metadata());
+  EXPECT_EQ(check_table_seal(file("law.h5")), SealCheck::kValid);
+  const std::vector<char> bytes = slurp(file("law.h5"));
+  for (std::size_t at : {kTableUserBlock, kTableUserBlock + 1000, bytes.size() - 1}) {
+    std::vector<char> changed = bytes;
+    changed[at] ^= 0x01;
+    spill(file("changed.h5"), changed);
+    EXPECT_EQ(check_table_seal(file("changed.h5")), SealCheck::kMismatch) << "byte " << at;
+  }
+  spill(file("short.h5"), std::vector<char>(bytes.begin(), bytes.end() - 1));
+  expect_error<TableFormatError>([&] { LawTableFile::open(file("short.h5")); }, "is truncated or damaged");
 }
 
 // ---- writing ------------------------------------------------------------------------------
