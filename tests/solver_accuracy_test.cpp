@@ -2,6 +2,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <cstdio>
 
 #include "reference/fredholm.h"
 #include "solver/solver.h"
@@ -67,17 +68,22 @@ TEST(TracyWidom, MomentsBeta1AndBeta4) {
     r.x = {0.0};
     r.w = {kInf};
     SolverOptions o;
-    o.target_error = 1e-9;
+    o.target_error = 1e-10;
     const auto t = solve_law(r, o);
     const auto& m = t.moments[0];
-    // At a 1e-9 cdf target beta = 1 and 4 land at ~3e-9 (mean), ~1e-8 (variance) and
-    // ~3e-7 (kurtosis) from the table (measured), short of the 1e-9 / 1e-7 that beta = 2
-    // meets; the reported moment errors must cover the difference.
+    // The tolerances: mean and variance within 1e-9, skewness and excess kurtosis
+    // within 1e-7. With the sixth-order scheme at a 1e-10 cdf target (measured) beta = 1 lands
+    // at 4e-11 (mean) and 8e-11 (variance), beta = 4 at 2e-11 and 1.1e-10; at the earlier
+    // fourth-order scheme and a 1e-9 target they were 3e-9 and 1e-8. The reported moment
+    // errors must cover the difference.
     const auto& e = t.moment_errors[0];
-    EXPECT_NEAR(m.mean, k.mean, 1e-8) << "beta " << k.beta;
-    EXPECT_NEAR(m.variance, k.variance, 3e-8) << "beta " << k.beta;
-    EXPECT_NEAR(m.skewness, k.skewness, 1e-6) << "beta " << k.beta;
-    EXPECT_NEAR(m.excess_kurtosis, k.kurtosis, 1e-6) << "beta " << k.beta;
+    std::printf("beta %g: mean %+.2e variance %+.2e skewness %+.2e kurtosis %+.2e (errors %.1e %.1e %.1e %.1e)\n", k.beta,
+                m.mean - k.mean, m.variance - k.variance, m.skewness - k.skewness, m.excess_kurtosis - k.kurtosis, e.mean,
+                e.variance, e.skewness, e.excess_kurtosis);
+    EXPECT_NEAR(m.mean, k.mean, 1e-9) << "beta " << k.beta;
+    EXPECT_NEAR(m.variance, k.variance, 1e-9) << "beta " << k.beta;
+    EXPECT_NEAR(m.skewness, k.skewness, 1e-7) << "beta " << k.beta;
+    EXPECT_NEAR(m.excess_kurtosis, k.kurtosis, 1e-7) << "beta " << k.beta;
     EXPECT_LE(std::abs(m.mean - k.mean), e.mean + 1e-13) << "beta " << k.beta;
     EXPECT_LE(std::abs(m.variance - k.variance), e.variance + 1e-13) << "beta " << k.beta;
     EXPECT_LE(std::abs(m.skewness - k.skewness), e.skewness + 1e-10) << "beta " << k.beta;
