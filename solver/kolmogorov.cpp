@@ -35,7 +35,7 @@ inline double apply(const Stencil& st, const double* u, int n, double boundary) 
 }  // namespace
 
 double KolmogorovOperator::upwind_share(double a) {
-  // Both biased stencils are fourth-order, so any convex blend is too; blending smoothly instead
+  // Both biased stencils are sixth-order, so any convex blend is too; blending smoothly instead
   // of switching at a = 0 keeps the right-hand side smooth in x, which BDF needs to take long
   // steps (a hard switch puts a kink at every node the branches cross).
   return 0.5 * (1.0 + a / std::sqrt(a * a + kBlendWidth * kBlendWidth));
