@@ -25,7 +25,7 @@ using namespace edgelaw;
 
 struct Options {
   std::vector<double> fredholm_targets{1e-8, 1e-9, 1e-10};
-  std::vector<double> edgelaw_targets{1e-8, 1e-9};
+  std::vector<double> edgelaw_targets{1e-8, 1e-9, 1e-10};
   int repeats = 3;
   int sample = 300;               // reference points
   int per_point_columns = 60;     // x columns timed with one factorisation per point
@@ -138,7 +138,7 @@ int main(int argc, char** argv) {
     else {
       std::fprintf(stderr,
                    "usage: fredholm_table_bench [--quick] [--fredholm-targets 1e-8,1e-9,1e-10] [--edgelaw-targets "
-                   "1e-8,1e-9] [--repeats 3] [--sample 300] [--per-point-columns 60] [--threads 2] [--calibrate]\n");
+                   "1e-8,1e-9,1e-10] [--repeats 3] [--sample 300] [--per-point-columns 60] [--threads 2] [--calibrate]\n");
       return a == "--help" ? 0 : 64;
     }
   }
