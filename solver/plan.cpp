@@ -63,7 +63,14 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
   // depth in absolute terms.
   const double need_relative = std::pow(std::pow(x_top, 1.5) + 1.5 * kTailDepth / beta, 2.0 / 3.0);
   const double need_absolute = std::pow(3.0 * kTailDepth / beta, 2.0 / 3.0);
-  plan.x_high = std::max({need_relative, need_absolute, req.x.back() + 1.0});
+  // The terminal data puts the explode / survive boundary at the unstable branch -sqrt(x), while
+  // the deterministic separatrix is Ai'(x)/Ai(x) = -sqrt(x) - 1/(4x) + ...; backward in x the
+  // flow contracts toward the branch only like exp(-(4/3)(x_high^{3/2} - x^{3/2})), whatever
+  // beta. For large beta (weak noise) nothing else damps that mismatch: at beta = 100, 400 an
+  // x_high of ~2 moved the w = -1 median by 5e-3 with a Richardson estimate of 5e-10 (found by
+  // comparing solves over different x ranges). e^-24 ~ 4e-11 suffices.
+  const double need_deterministic = std::pow(std::pow(x_top, 1.5) + 18.0, 2.0 / 3.0);
+  plan.x_high = std::max({need_relative, need_absolute, need_deterministic, req.x.back() + 1.0});
   if (options.base_intervals > 0) {
     plan.base_intervals = options.base_intervals;
   } else {
