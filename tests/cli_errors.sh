@@ -4,6 +4,7 @@
 # Expected codes are the project's own (sysexits.h values); common practice, no source.
 # Usage: cli_errors.sh EDGELAW WORKDIR
 set -u
+here=$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)
 edgelaw=$(realpath "$1")
 work=$2
 rm -rf "$work"
@@ -17,24 +18,8 @@ printf 'beta,x,w\n2,-1,inf\n2,zero,1\n' > text.csv
 printf 'beta,x,w\n2,-1,inf\n' > one.csv
 printf 'not an hdf5 file\n' > fake.h5
 
-# expect CODE DESCRIPTION ARGS...: runs edgelaw, checks code, one stderr line, no out.* file.
-expect() {
-  local code=$1 what=$2
-  shift 2
-  "$edgelaw" "$@" > stdout.txt 2> stderr.txt
-  local got=$?
-  local lines
-  lines=$(wc -l < stderr.txt)
-  local leftovers
-  leftovers=$(ls -A | grep -E '^(\.)?out' | tr '\n' ' ')
-  if [[ $got -ne $code || $lines -ne 1 || -n $leftovers ]]; then
-    echo "FAIL $what: exit $got (want $code), $lines stderr lines (want 1), leftovers '$leftovers'"
-    sed 's/^/  stderr: /' stderr.txt
-    failures=$((failures + 1))
-  else
-    echo "ok   $what: exit $got: $(cat stderr.txt)"
-  fi
-}
+# shellcheck source=cli_expect.sh
+source "$here/cli_expect.sh"
 
 tiny=(--x-min -1 --x-max 0 --x-step 0.5 --w-min 0 --w-max 1 --w-step 1)
 expect 64 "beta zero" table --beta 0 "${tiny[@]}" --output out.h5

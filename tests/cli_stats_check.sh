@@ -6,6 +6,7 @@
 # no source.
 # Usage: cli_stats_check.sh EDGELAW WORKDIR
 set -u
+here=$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)
 edgelaw=$(realpath "$1")
 work=$2
 rm -rf "$work"
@@ -19,23 +20,9 @@ printf 'a,b\n1,2\n3,oops\n' > text.csv
 printf '1,2,3\n' > one.csv
 printf '1,2\n2,1\n3,4\n' > notsquare.csv
 
-expect() {
-  local code=$1 what=$2
-  shift 2
-  "$edgelaw" "$@" > stdout.txt 2> stderr.txt
-  local got=$?
-  local lines
-  lines=$(wc -l < stderr.txt)
-  local leftovers
-  leftovers=$(ls -A | grep -E '^(\.)?out' | tr '\n' ' ')
-  if [[ $got -ne $code || $lines -ne 1 || -n $leftovers ]]; then
-    echo "FAIL $what: exit $got (want $code), $lines stderr lines (want 1), leftovers '$leftovers'"
-    sed 's/^/  stderr: /' stderr.txt
-    failures=$((failures + 1))
-  else
-    echo "ok   $what: exit $got: $(cat stderr.txt)"
-  fi
-}
+# expect CODE DESCRIPTION ARGS...: one stderr line, the code, no out.* file (cli_expect.sh).
+# shellcheck source=cli_expect.sh
+source "$here/cli_expect.sh"
 
 cov=(--model covariance --beta 1 --n 800 --p 200)
 expect 65 "non-numeric CSV" pvalue --model covariance --beta 1 --data text.csv
