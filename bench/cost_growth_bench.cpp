@@ -174,7 +174,9 @@ void print_row(const Result& r) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  std::vector<double> grids{200, 400, 800, 1600, 3200};
+  // 3200 is left out: with the 16x-per-halving time tolerances this bench applies (line 66) one
+  // run there took over 10 minutes on 2026-12-02, and the solver no longer uses that schedule.
+  std::vector<double> grids{200, 400, 800, 1600};
   std::vector<double> x_mins{-5, -10, -20, -40};
   int single = 0;
   double single_x_min = -10;
