@@ -18,6 +18,7 @@
 #include "cli/atomic_file.h"
 #include "cli/exit_codes.h"
 #include "cli/points_csv.h"
+#include "stats/edge_law.h"
 
 namespace edgelaw {
 
@@ -205,21 +206,12 @@ void check_lookup(const LookupCommand& c) {
   if (auto why = opt.check(); !why.empty()) throw UsageError(why);
 }
 
-// Thresholds that hold every probability level a double can tell from 0 or 1 (both tails
-// reach e^-30): the left tail log F ~ -(beta/24)|x|^3 from the Airy zero a_1, the spiked
-// right tail exp(-(beta/3) x^{3/2}), and the Gaussian regime w < 0 around w^2 with
-// standard deviation 2 sqrt(|w|/beta) (design notes, section 1).
+// The law's support at w (stats/edge_law.h: both tails to e^-30) on a 0.05 axis, which keeps
+// the quintic Hermite interpolation error near 1e-10 at beta = 2 (the reader's own estimate is
+// reported, so a coarser grid would show up in the error, not hide).
 std::vector<double> lookup_axis(double beta, double w) {
-  double lo = -2.338107410459767 - std::cbrt(24.0 * 30.0 / beta);
-  double hi = std::max(2.0, std::pow(90.0 / beta, 2.0 / 3.0));
-  if (w < 0) {
-    const double sd = 2.0 * std::sqrt(-w / beta);
-    lo = std::min(lo, w * w - 8.0 * sd);
-    hi = std::max(hi, w * w + 8.0 * sd);
-  }
-  // 0.05 keeps the quintic Hermite interpolation error near 1e-10 at beta = 2 (the reader's
-  // own estimate is reported, so a coarser grid would show up in the error, not hide).
-  return axis(std::floor(lo), std::ceil(hi), 0.05, "x");
+  const XRange r = law_support(beta, w);
+  return axis(r.lo, r.hi, 0.05, "x");
 }
 
 LawTable solve_checked(const LawRequest& req, const SolverOptions& opt) {
