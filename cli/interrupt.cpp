@@ -15,6 +15,7 @@ namespace edgelaw {
 
 namespace {
 std::mutex note_lock;
+std::mutex output_lock;  // held by status lines while written; taken for good by the watcher
 std::string& note() {
   static auto* n = new std::string;  // never destroyed: read while the process exits
   return *n;
@@ -45,6 +46,7 @@ sigset_t interrupt_signals() {
     if (!note().empty()) line += "; " + note();
   }
   line += "\n";
+  output_lock.lock();  // never released: no status line can follow the interrupt line
   [[maybe_unused]] const ssize_t n = ::write(STDERR_FILENO, line.data(), line.size());
   ::_exit(128 + sig);
 }
@@ -59,6 +61,12 @@ void install_interrupt_cleanup() {
 void set_interrupt_note(const std::string& text) {
   std::lock_guard guard(note_lock);
   note() = text;
+}
+
+void print_status_line(const std::string& line) {
+  std::lock_guard guard(output_lock);
+  const std::string text = line + "\n";
+  [[maybe_unused]] const ssize_t n = ::write(STDERR_FILENO, text.data(), text.size());
 }
 
 }  // namespace edgelaw

@@ -14,4 +14,9 @@ void install_interrupt_cleanup();
 // Text appended to the interrupt line, e.g. where a sweep keeps its finished betas; "" clears.
 void set_interrupt_note(const std::string& note);
 
+// Writes one line (newline added) to stderr, for progress reports from worker threads. Once an
+// interrupt is being reported no such line is written any more, so the interrupt line stays the
+// last line on stderr (scripts read the last line for the reason).
+void print_status_line(const std::string& line);
+
 }  // namespace edgelaw

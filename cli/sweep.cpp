@@ -244,9 +244,11 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
           ++solved;
           const double elapsed = seconds_since(start);
           const double left = elapsed / static_cast<double>(solved) * static_cast<double>(todo.size() - solved);
-          std::fprintf(stderr, "edgelaw: sweep: beta %s done (%zu/%zu), %s, elapsed %.1f s, about %.0f s left\n",
-                       format_double(beta).c_str(), done, mine.size(), t.summary.converged ? "converged" : "NOT converged",
-                       elapsed, left);
+          char text[256];
+          std::snprintf(text, sizeof text, "edgelaw: sweep: beta %s done (%zu/%zu), %s, elapsed %.1f s, about %.0f s left",
+                        format_double(beta).c_str(), done, mine.size(),
+                        t.summary.converged ? "converged" : "NOT converged", elapsed, left);
+          print_status_line(text);
         } catch (...) {
           std::lock_guard guard(lock);
           if (!first_error) first_error = std::current_exception();
