@@ -11,6 +11,40 @@ namespace {
 constexpr double kAiryZero = -2.338107410459767;  // a_1, first zero of Ai (DLMF 9.9.1, Table 9.9.1)
 // Tail depth in e-folds: e^-40 ~ 4e-18 is below anything a double cdf or a moment can see.
 constexpr double kTailDepth = 40.0;
+// Nodes per front width on the coarsest level at the narrowest front (x = x_high). The default
+// beta = 2 table (x_high ~ 15) has 5.4 with the standing weight 4 and 200 intervals (beta = 1:
+// 4.6, beta = 4: 6.0), so its plan is unchanged;
+// with 0.36 (beta = 2, x_high = 160, needed for w = -12) the semi-discrete operator had a
+// growing mode (Re lambda = +6.7 at 200 intervals, stable at 400: measured with the spectrum
+// probe of tests/solver_operator_test.cpp). So every plan gets at least kNodesPerFront.
+constexpr double kNodesPerFront = 4.0;
+
+// Width in theta of the cdf's jump across the unstable branch at x (see grid_density).
+double front_width(double beta, double x) {
+  const double sigma = 2.0 / std::sqrt(beta);
+  return sigma / (2.0 * std::pow(x, 0.25) * (1.0 + x));  // sin^2(psi) = 1 / (1 + x)
+}
+
+// Raises the front weight, and the coarsest grid if the weight alone cannot do it, until the
+// coarsest level puts kNodesPerFront nodes across the narrowest front. Node spacing there is
+// total / (N (1 + W)) with total = pi + W S, S the integral of the front share.
+void resolve_narrowest_front(Plan& plan, bool fixed_intervals) {
+  const double width = front_width(plan.beta, std::max(plan.front_until, 1.0));
+  // S by the midpoint rule on a grid much finer than any front (grid_density - 1 at weight 1).
+  const double weight = plan.front_weight;
+  plan.front_weight = 1.0;
+  double share = 0.0;
+  const int cells = 1 << 16;
+  for (int k = 0; k < cells; ++k) share += plan.grid_density(std::numbers::pi * (k + 0.5) / cells) - 1.0;
+  share *= std::numbers::pi / cells;
+  plan.front_weight = weight;
+  double c = plan.base_intervals * width / kNodesPerFront;  // total / (1 + W) must not exceed c
+  if (c <= 2.0 * share && !fixed_intervals) {
+    plan.base_intervals = static_cast<int>(std::ceil(2.0 * share * kNodesPerFront / width / 8.0) * 8);
+    c = plan.base_intervals * width / kNodesPerFront;
+  }
+  if (c > share) plan.front_weight = std::max(weight, (std::numbers::pi - c) / (c - share));
+}
 }  // namespace
 
 double Plan::grid_density(double theta) const {
@@ -85,6 +119,7 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
   // stencils: the largest estimate sat at w ~ -4, x = 8 and fell from 6.0e-9 to 2.2e-9 when the
   // grid followed the front up to x_high instead of x_top + 1).
   plan.front_until = plan.x_high;
+  resolve_narrowest_front(plan, options.base_intervals > 0);
   // The integrator's share of the estimate is time_error_factor times the finest tolerance:
   // cap the tolerances so that it is a quarter of the target on every level. The level
   // differences cannot be relied on to show time errors: with the sixth-order scheme they are

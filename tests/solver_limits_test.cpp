@@ -158,10 +158,11 @@ TEST(BetaToInfinity, MedianApproachesAiryRoot) {
 // w^2 - 1/(2|w|) + ... (from Ai'/Ai ~ -sqrt(x) - 1/(4x), the large-x expansions of DLMF 9.7(ii)), a shift of
 // sqrt(beta)/(4|w|^{3/2}) standard deviations, and the skewness of the law is of the same order.
 // Checks: the distance max |F - Phi| over x in w^2 +- 3 sd decreases strictly along the sequence,
-// and its local decay exponent between the last two w lies in [1, 2] (predicted 3/2).
-// The issue asked for w = -4, -8, -12; one beta = 2, w = -8 solve (x in [48, 80], target 1e-7,
-// no moments) had not finished after 4 minutes on this machine, so the sequence is -2, -3, -4.
-constexpr double kSupercriticalW[] = {-2.0, -3.0, -4.0};
+// and its local decay exponent between the last two w lies in [1.25, 1.75] (predicted 3/2;
+// measured 1.54, 1.50, 1.50 for beta = 1, 2, 4, distances 1.5e-3 .. 3.2e-3 at w = -12).
+// These rows need x up to ~170, where the front is ~1e-3 wide in theta: the plan puts four
+// nodes across it on the coarsest level (solver/plan.cpp), so each solve takes 2-35 s.
+constexpr double kSupercriticalW[] = {-4.0, -8.0, -12.0};
 class SupercriticalLimit : public ::testing::TestWithParam<double> {};
 
 TEST_P(SupercriticalLimit, ApproachesGaussian) {
@@ -174,7 +175,7 @@ TEST_P(SupercriticalLimit, ApproachesGaussian) {
     r.x = linspace(mean - 3 * sd, mean + 3 * sd, 25);
     r.w = {w};
     SolverOptions o;
-    o.target_error = 1e-7;  // distances below are >= 1e-3: the solver error is irrelevant
+    o.target_error = 1e-6;  // distances below are >= 1e-3: the solver error is irrelevant
     o.moments = false;
     const LawTable t = solve_logged(r, o, "w->-inf");
     ASSERT_TRUE(t.summary.converged) << t.summary.full();
@@ -188,8 +189,8 @@ TEST_P(SupercriticalLimit, ApproachesGaussian) {
     EXPECT_LT(distance[k], 0.9 * distance[k - 1]) << "w = " << kSupercriticalW[k - 1] << " -> " << kSupercriticalW[k];
   const double exponent = std::log(distance[1] / distance[2]) / std::log(kSupercriticalW[2] / kSupercriticalW[1]);
   if (verbose()) std::printf("  beta=%g decay exponent of the distance in |w|: %.3f\n", beta, exponent);
-  EXPECT_GT(exponent, 1.0);
-  EXPECT_LT(exponent, 2.0);
+  EXPECT_GT(exponent, 1.25);
+  EXPECT_LT(exponent, 1.75);
 }
 
 INSTANTIATE_TEST_SUITE_P(Betas, SupercriticalLimit, ::testing::Values(1.0, 2.0, 4.0),
