@@ -52,6 +52,8 @@ int guarded(const std::function<int()>& body) {
     return fail(e, exit_code::kCannotCreate);
   } catch (const OverBudgetError& e) {
     return fail(e, exit_code::kOverBudget);
+  } catch (const SolveBudgetError& e) {
+    return fail(e, exit_code::kOverBudget);
   } catch (const SolveError& e) {
     return fail(e, exit_code::kSoftware);
   } catch (const std::exception& e) {
@@ -86,6 +88,7 @@ SolverOptions grid_solver_options(const GridOptions& g) {
   opt.target_error = g.target;
   opt.base_intervals = g.base_intervals;
   opt.max_levels = g.max_levels;
+  opt.max_seconds = g.max_seconds;
   if (auto why = opt.check(); !why.empty()) throw UsageError(why);
   return opt;
 }
@@ -272,6 +275,7 @@ int run_evaluate(const EvaluateCommand& c) {
     SolverOptions opt;
     opt.target_error = c.target;
     opt.moments = false;
+    opt.max_seconds = c.max_seconds;
     if (auto why = opt.check(); !why.empty()) throw UsageError(why);
     if (!c.output.empty() && c.output != "-") check_output_path(c.output);
     std::string text;

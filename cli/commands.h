@@ -35,13 +35,15 @@ struct GridOptions {
   double x_min = -10, x_max = 8, x_step = 0.01;
   double w_min = -6, w_max = 6, w_step = 0.05;
   bool with_unspiked = true;  // append w = +inf (the Tracy-Widom row)
-  double target = 1e-10;      // about 7 s at beta = 2 (default grid), a minute at beta = 0.5
+  double target = 1e-10;      // about 5 s at beta = 2 on the default grid (BENCHMARKS.md)
   int base_intervals = 0;     // coarsest theta grid; 0 lets the solver choose from beta
   int max_levels = SolverOptions{}.max_levels;  // grid halvings allowed before giving up
   // Write files whose solve missed the target (marked converged = 0) instead of failing.
   bool keep_unconverged = false;
   // Requests whose memory estimate (cli/budget.h) exceeds this are refused before solving.
   double max_memory_mib = kDefaultMemoryBudgetMiB;
+  // Wall-time budget of each solve (one per beta), seconds; +inf: none (SolverOptions::max_seconds).
+  double max_seconds = kInf;
 };
 
 struct TableCommand {
@@ -56,6 +58,7 @@ struct EvaluateCommand {
   std::string table;   // HDF5 table to answer from; empty: solve
   double target = 1e-8;
   double max_memory_mib = kDefaultMemoryBudgetMiB;
+  double max_seconds = kInf;  // per solve, as GridOptions::max_seconds
 };
 
 // quantile and pvalue: one number with its error, from a table or from a solve.

@@ -29,6 +29,8 @@ void add_grid_options(CLI::App* app, edgelaw::GridOptions& g) {
                 "Write the file even if the target is missed (marked converged = 0)");
   app->add_option("--max-memory", g.max_memory_mib, "Refuse requests estimated to need more MiB than this")
       ->capture_default_str();
+  app->add_option("--max-time", g.max_seconds,
+                  "Wall-time budget in seconds of each solve (one per beta): refused up front, or before a grid level, when the estimate exceeds it (default: none)");
 }
 
 void add_lookup_options(CLI::App* app, edgelaw::LookupCommand& c) {
@@ -108,6 +110,7 @@ int main(int argc, char** argv) {
   e->add_option("--target", evaluate.target, "Largest accepted estimated error of a solve")->capture_default_str();
   e->add_option("--max-memory", evaluate.max_memory_mib, "Refuse solves estimated to need more MiB than this")
       ->capture_default_str();
+  e->add_option("--max-time", evaluate.max_seconds, "Wall-time budget in seconds of each solve (one per beta; default: none)");
 
   edgelaw::LookupCommand quantile;
   auto* q = app.add_subcommand("quantile", "The threshold x with F_beta(x; w) = probability");

@@ -260,7 +260,11 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
       std::vector<std::jthread> pool;
       for (std::size_t k = 0; k < workers; ++k) pool.emplace_back(work);
     }
-    if (first_error) std::rethrow_exception(first_error);
+    if (first_error) {
+      // Finished slices stay for a resume; a checkpoint folder with none is only clutter.
+      if (fs::is_empty(parts_dir, ec)) fs::remove(parts_dir, ec);
+      std::rethrow_exception(first_error);
+    }
 
     // Assemble from the slice files, so a resumed run and an uninterrupted one agree exactly.
     std::vector<LawTable> tables;

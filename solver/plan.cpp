@@ -28,7 +28,8 @@ double front_width(double beta, double x) {
 // Raises the front weight, and the coarsest grid if the weight alone cannot do it, until the
 // coarsest level puts kNodesPerFront nodes across the narrowest front. Node spacing there is
 // total / (N (1 + W)) with total = pi + W S, S the integral of the front share.
-void resolve_narrowest_front(Plan& plan, bool fixed_intervals) {
+// A base grid fixed by the caller (refinement studies, benchmarks) keeps the standing weight.
+void resolve_narrowest_front(Plan& plan) {
   const double width = front_width(plan.beta, std::max(plan.front_until, 1.0));
   // S by the midpoint rule on a grid much finer than any front (grid_density - 1 at weight 1).
   const double weight = plan.front_weight;
@@ -39,11 +40,11 @@ void resolve_narrowest_front(Plan& plan, bool fixed_intervals) {
   share *= std::numbers::pi / cells;
   plan.front_weight = weight;
   double c = plan.base_intervals * width / kNodesPerFront;  // total / (1 + W) must not exceed c
-  if (c <= 2.0 * share && !fixed_intervals) {
+  if (c <= 2.0 * share) {
     plan.base_intervals = static_cast<int>(std::ceil(2.0 * share * kNodesPerFront / width / 8.0) * 8);
     c = plan.base_intervals * width / kNodesPerFront;
   }
-  if (c > share) plan.front_weight = std::max(weight, (std::numbers::pi - c) / (c - share));
+  plan.front_weight = std::max(weight, (std::numbers::pi - c) / (c - share));  // c >= 2 S: W <= pi / S
 }
 }  // namespace
 
@@ -119,7 +120,7 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
   // stencils: the largest estimate sat at w ~ -4, x = 8 and fell from 6.0e-9 to 2.2e-9 when the
   // grid followed the front up to x_high instead of x_top + 1).
   plan.front_until = plan.x_high;
-  resolve_narrowest_front(plan, options.base_intervals > 0);
+  if (options.base_intervals == 0) resolve_narrowest_front(plan);
   // The integrator's share of the estimate is time_error_factor times the finest tolerance:
   // cap the tolerances so that it is a quarter of the target on every level. The level
   // differences cannot be relied on to show time errors: with the sixth-order scheme they are

@@ -14,6 +14,7 @@
 
 #include <algorithm>
 #include <chrono>
+#include <cstdio>
 #include <cmath>
 #include <numbers>
 #include <exception>
@@ -24,6 +25,7 @@
 #include "solver/backward_run.h"
 #include "solver/kolmogorov.h"
 #include "solver/plan.h"
+#include "solver/time_budget.h"
 
 namespace edgelaw {
 
@@ -227,6 +229,12 @@ void add_moment_floor(const Moments& m, double floor_abs, Moments& error) {
   error.excess_kurtosis += central(4) / std::pow(sd, 4) + 2.0 * (m.excess_kurtosis + 3.0) * central(2) / m.variance;
 }
 
+std::string seconds_text(double s) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.3g", s);
+  return buf;
+}
+
 }  // namespace
 
 std::string SolverOptions::check() const {
@@ -239,7 +247,7 @@ std::string SolverOptions::check() const {
   // The finest level has base * 2^(levels-1) intervals; beyond ~1e5 a solve takes hours.
   if (base_intervals != 0 && (base_intervals < 16 || (static_cast<double>(base_intervals) * (1 << (max_levels - 1))) > 2e5))
     return "base grid must have at least 16 intervals and at most 2e5 on the finest level (or 0 for automatic)";
-  if (!(max_work > 0)) return "work budget must be positive";
+  if (!(max_seconds > 0)) return "time budget must be a positive number of seconds";
   return {};
 }
 
@@ -287,12 +295,31 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
   s.time_tolerance = plan.bulk_tolerance_at(0);
   s.nominal_order = AngleGrid::kOrder;
 
+  s.estimated_seconds = a_priori_seconds(plan, options.min_levels);
+  if (s.estimated_seconds > options.max_seconds)
+    throw SolveBudgetError("the solve for beta " + seconds_text(req.beta) + " is estimated to take at least " +
+                           seconds_text(s.estimated_seconds) + " s (" + std::to_string(options.min_levels) +
+                           " grid levels from " + std::to_string(plan.base_intervals) + " intervals, x in [" +
+                           seconds_text(plan.x_low) + ", " + seconds_text(plan.x_high) +
+                           "]), over the time budget of " + seconds_text(options.max_seconds) + " s");
   for (int level = 0; level < options.max_levels; ++level) {
     const int intervals = plan.base_intervals << level;
+    if (level > 0) {
+      const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+      const double ahead = projected_seconds(s.level_seconds, level, options.min_levels);
+      if (elapsed + ahead > options.max_seconds)
+        throw SolveBudgetError("the solve for beta " + seconds_text(req.beta) + " would exceed the time budget of " +
+                               seconds_text(options.max_seconds) + " s: after " + seconds_text(elapsed) + " s, grid " +
+                               std::to_string(intervals) + " is projected to need about " + seconds_text(ahead) +
+                               " s more (grid " + std::to_string(intervals / 2) + " took " +
+                               seconds_text(s.level_seconds.back()) + " s); no result kept");
+    }
     if (level > 0 && options.moments)
       for (int r = 0; r < rows; ++r)
         if (std::isfinite(levels.back().moments[r].mean)) centres[r] = levels.back().moments[r].mean;
+    const auto level_start = std::chrono::steady_clock::now();
     levels.push_back(solve_level(req, plan, level, centres, options.moments));
+    s.level_seconds.push_back(std::chrono::duration<double>(std::chrono::steady_clock::now() - level_start).count());
     const auto& c = levels.back().counters;
     s.intervals.push_back(intervals);
     s.steps.push_back(c.steps);
@@ -376,9 +403,12 @@ std::string SolveSummary::brief() const {
 std::string SolveSummary::full() const {
   std::ostringstream o;
   o << brief() << "\n  x range [" << x_low << ", " << x_high << "], CVODE bulk tolerance (coarsest level) " << time_tolerance << "\n";
-  for (std::size_t i = 0; i < intervals.size(); ++i)
+  for (std::size_t i = 0; i < intervals.size(); ++i) {
     o << "  grid " << intervals[i] << ": steps " << steps[i] << ", rhs " << rhs_evals[i] << ", jacobians "
-      << jac_evals[i] << ", newton " << newton_iters[i] << ", error-test failures " << error_test_failures[i] << "\n";
+      << jac_evals[i] << ", newton " << newton_iters[i] << ", error-test failures " << error_test_failures[i];
+    if (i < level_seconds.size()) o << ", " << level_seconds[i] << " s";
+    o << "\n";
+  }
   return o.str();
 }
 

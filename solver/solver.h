@@ -49,8 +49,10 @@ struct SolverOptions {
   int max_levels = 5;
   // Compute mean, variance, skewness and excess kurtosis for every w.
   bool moments = true;
-  // Refuse requests whose work estimate exceeds this many grid-point x steps.
-  double max_work = 2e10;
+  // Wall-time budget in seconds (+inf: none). Refused before any work when the a-priori
+  // estimate exceeds it, and before each further grid level when the projection from the
+  // levels already solved does (SolveBudgetError, with the estimate in the message).
+  double max_seconds = kInf;
 
   // Empty string when valid, otherwise one line naming the problem.
   std::string check() const;
@@ -66,6 +68,8 @@ struct SolveSummary {
   double x_low = 0, x_high = 0;          // integration range actually used
   std::vector<int> intervals;            // theta intervals per grid level
   std::vector<long> steps, rhs_evals, jac_evals, newton_iters, error_test_failures;
+  std::vector<double> level_seconds;     // wall time per grid level
+  double estimated_seconds = 0;          // a-priori estimate of the minimum levels (see budget)
   double time_tolerance = 0;             // CVODE bulk (absolute) tolerance on the coarsest level
   double observed_order = 0;             // from the last three levels (max norm)
   double nominal_order = 6;              // order of the difference stencils
@@ -92,6 +96,11 @@ struct LawTable {
 // Thrown for requests that cannot be served (bad input, budget, solver failure).
 struct SolveError : std::runtime_error {
   using std::runtime_error::runtime_error;
+};
+
+// Thrown before work that the time budget (SolverOptions::max_seconds) does not cover.
+struct SolveBudgetError : SolveError {
+  using SolveError::SolveError;
 };
 
 // Validates, solves and returns the table. Throws SolveError with a one-line message.

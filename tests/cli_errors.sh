@@ -71,6 +71,8 @@ expect 64 "max levels absurd with a base grid" table --base-intervals 100 --max-
 expect 64 "max levels negative with a base grid" table --base-intervals 100 --max-levels -3 "${tiny[@]}" --output out.h5
 expect 64 "memory budget negative" table --max-memory -5 "${tiny[@]}" --output out.h5
 expect 64 "memory budget NaN" table --max-memory nan "${tiny[@]}" --output out.h5
+expect 64 "time budget zero" table --max-time 0 "${tiny[@]}" --output out.h5
+expect 64 "time budget NaN" evaluate --input good.csv --max-time nan --output out.csv
 expect 64 "quantile probability 0" quantile --probability 0
 expect 64 "quantile probability above 1" quantile --probability 1.5
 expect 64 "quantile probability negative" quantile --probability -0.05
@@ -96,6 +98,10 @@ expect 69 "table over a lowered memory budget" table --max-memory 1 --output out
 expect 69 "sweep over the memory budget" sweep --betas 1,2,4 --threads 3 --x-step 0.001 --w-step 0.01 --max-memory 1000 --output out.h5
 expect 69 "evaluate solve over the memory budget" evaluate --input good.csv --max-memory 0.0001 --output out.csv
 if ! grep -q "MiB" stderr.txt; then echo "FAIL budget message names no estimate"; failures=$((failures + 1)); fi
+# The default table is estimated at 2.6 s before any work (solver/time_budget.cpp).
+expect 69 "table over a 1 s time budget" table --max-time 1 --output out.h5
+expect 69 "sweep over a 1 s time budget per beta" sweep --betas 1,2 --max-time 1 --output out.h5
+if ! grep -q "estimated to take at least [0-9.]* s" stderr.txt; then echo "FAIL time budget message names no estimate"; failures=$((failures + 1)); fi
 
 # Bad or unreadable inputs, unwritable outputs.
 printf '' > empty.csv

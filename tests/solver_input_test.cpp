@@ -1,10 +1,13 @@
 // Bad requests and options are refused with a one-line reason, before any work is done.
 #include <gtest/gtest.h>
 
+#include <chrono>
 #include <cmath>
 #include <limits>
 
+#include "solver/plan.h"
 #include "solver/solver.h"
+#include "solver/time_budget.h"
 
 namespace edgelaw {
 namespace {
@@ -67,6 +70,73 @@ TEST(SolverInput, RefusesUndeliverableAccuracyAndAbsurdGrids) {
   o = {};
   o.max_levels = 2;
   expect_refused(valid(), o, "levels");
+}
+
+TEST(SolverInput, RefusesBadTimeBudget) {
+  for (double seconds : {0.0, -1.0, std::nan("")}) {
+    SolverOptions o;
+    o.max_seconds = seconds;
+    expect_refused(valid(), o, "time budget");
+  }
+}
+
+// The a-priori estimate refuses before any work, naming the estimate and the budget: the
+// default beta = 2 table is estimated at 2.6 s (it takes 4.5 s on this machine, BENCHMARKS.md),
+// so a 1 s budget must be refused, and refused at once (the refusal costs no solve).
+TEST(SolverTimeBudget, RefusesUpFrontWithTheEstimate) {
+  LawRequest r;
+  r.beta = 2;
+  for (int i = 0; i <= 1800; ++i) r.x.push_back(-10 + 0.01 * i);
+  for (int i = 0; i <= 240; ++i) r.w.push_back(-6 + 0.05 * i);
+  r.w.push_back(kInf);
+  SolverOptions o;
+  o.max_seconds = 1.0;
+  const Plan plan = make_plan(r, o);
+  const double estimate = a_priori_seconds(plan, o.min_levels);
+  EXPECT_GT(estimate, 1.5);  // the calibration of time_budget.cpp: 2.59 s
+  EXPECT_LT(estimate, 4.5);  // low-biased: never above the measured 4.5 s
+  const auto start = std::chrono::steady_clock::now();
+  try {
+    solve_law(r, o);
+    FAIL() << "a 1 s budget accepted a solve estimated at " << estimate << " s";
+  } catch (const SolveBudgetError& e) {
+    const std::string what = e.what();
+    EXPECT_NE(what.find("estimated to take at least"), std::string::npos) << what;
+    EXPECT_NE(what.find("time budget of 1 s"), std::string::npos) << what;
+  }
+  EXPECT_LT(std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count(), 0.5);
+  // The estimate grows with the work: twice the base grid, twice the estimate.
+  Plan finer = plan;
+  finer.base_intervals *= 2;
+  EXPECT_NEAR(a_priori_seconds(finer, 3) / estimate, 2.0, 1e-12);
+}
+
+// The projection before a further level: the last level's time times the measured growth,
+// summed over the levels that must still run.
+TEST(SolverTimeBudget, ProjectsFromMeasuredLevels) {
+  const double one[] = {1.0};
+  // Only one level measured: growth 2.5 assumed; levels 1 and 2 still needed for min_levels 3.
+  EXPECT_NEAR(projected_seconds(one, 1, 3), 2.5 + 6.25, 1e-12);
+  const double two[] = {1.0, 3.0};
+  // Measured growth 3: level 2 alone (min_levels reached) costs 9.
+  EXPECT_NEAR(projected_seconds(two, 2, 3), 9.0, 1e-12);
+  // Growth is bounded to [1.5, 8], so a noisy fast level cannot promise a free next one.
+  const double noisy[] = {1.0, 0.1};
+  EXPECT_NEAR(projected_seconds(noisy, 2, 3), 0.15, 1e-12);
+}
+
+// A solve that fits its budget is unaffected and reports its per-level times.
+TEST(SolverTimeBudget, GenerousBudgetChangesNothing) {
+  SolverOptions o;
+  o.moments = false;
+  o.target_error = 1e-6;
+  const LawTable plain = solve_law(valid(), o);
+  o.max_seconds = 600;
+  const LawTable budgeted = solve_law(valid(), o);
+  EXPECT_EQ(plain.cdf, budgeted.cdf);
+  ASSERT_EQ(budgeted.summary.level_seconds.size(), budgeted.summary.intervals.size());
+  for (double t : budgeted.summary.level_seconds) EXPECT_GT(t, 0.0);
+  EXPECT_GT(budgeted.summary.estimated_seconds, 0.0);
 }
 
 }  // namespace
