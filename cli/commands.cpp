@@ -217,6 +217,23 @@ std::vector<double> lookup_axis(double beta, double w) {
   return axis(r.lo, r.hi, 0.05, "x");
 }
 
+// Where a table misses its target: "N of M entries, w in [a, b], x in [c, d]" (the bounding box).
+std::string region_over_target(const LawTable& t, double target) {
+  long missed = 0;
+  double w_lo = kInf, w_hi = -kInf, x_lo = kInf, x_hi = -kInf;
+  for (Eigen::Index r = 0; r < t.cdf_error.rows(); ++r)
+    for (Eigen::Index c = 0; c < t.cdf_error.cols(); ++c)
+      if (!(t.cdf_error(r, c) <= target && t.survival_error(r, c) <= target)) {
+        ++missed;
+        w_lo = std::min(w_lo, t.w[r]), w_hi = std::max(w_hi, t.w[r]);
+        x_lo = std::min(x_lo, t.x[c]), x_hi = std::max(x_hi, t.x[c]);
+      }
+  if (missed == 0) return "no entry over the target";
+  return std::to_string(missed) + " of " + std::to_string(t.cdf_error.size()) + " entries over the target, w in [" +
+         format_double(w_lo) + ", " + format_double(w_hi) + "], x in [" + format_double(x_lo) + ", " +
+         format_double(x_hi) + "]";
+}
+
 LawTable solve_checked(const LawRequest& req, const SolverOptions& opt) {
   LawTable t = solve_law(req, opt);
   std::cerr << t.summary.brief() << "\n";
@@ -242,7 +259,8 @@ int run_table(const TableCommand& c, const Invocation& inv) {
     const double worst = max_error(t.summary);
     if (!t.summary.converged && !c.grid.keep_unconverged)
       throw SolveError("accuracy target " + format_double(c.grid.target) + " not reached (max estimated error " +
-                       format_double(worst) + "); nothing written (--keep-unconverged writes it anyway)");
+                       format_double(worst) + "; " + region_over_target(t, c.grid.target) +
+                       "); nothing written (--keep-unconverged writes it anyway, with those entries marked)");
 
     TableMetadata meta;
     meta.title = table_title(c.beta);
@@ -251,7 +269,8 @@ int run_table(const TableCommand& c, const Invocation& inv) {
     write_table(c.output, t, meta);
     if (!t.summary.converged)
       std::cerr << "edgelaw: warning: " << c.output << " missed the accuracy target " << format_double(c.grid.target)
-                << " (max estimated error " << format_double(worst) << "); written with converged = 0\n";
+                << " (max estimated error " << format_double(worst) << "; " << region_over_target(t, c.grid.target)
+                << "); written with converged = 0 and those entries marked 0 in within_target\n";
 
     std::printf("wrote %s (beta %s, %zu x in [%s, %s], %zu w in [%s, %s])\n", c.output.c_str(),
                 format_double(t.beta).c_str(), t.x.size(), format_double(t.x.front()).c_str(),

@@ -314,6 +314,19 @@ LawTableFile LawTableFile::open(const std::string& path, InterpolationOptions op
           }
       }
     }
+    // The accuracy mark of files that missed their target must agree with the stored errors.
+    if (has_link(f, "within_target")) {
+      auto mark = get_dataset(f, "within_target", grid);
+      auto target = get_numbers<double>(f, "setting_target_error");
+      if (target.size() != 1) throw fail("has within_target but no scalar setting_target_error");
+      for (std::size_t b = 0; b < nb; ++b)
+        for (std::size_t k = 0; k < nw * nx; ++k) {
+          const bool ok = tables[b].cdf_error.data()[k] <= target[0] && tables[b].survival_error.data()[k] <= target[0];
+          if (mark[b * nw * nx + k] != (ok ? 1.0 : 0.0))
+            throw fail("within_target[w=" + num(w[k / nx]) + ", x=" + num(x[k % nx]) +
+                       "] disagrees with the stored errors and setting_target_error");
+        }
+    }
     if (has_link(f, "mean")) {
       const std::pair<const char*, double Moments::*> fields[] = {{"mean", &Moments::mean},
                                                                    {"variance", &Moments::variance},

@@ -262,6 +262,25 @@ void write_contents(hid_t file, const std::vector<LawTable>& tables, bool sweep,
               "estimated absolute error of survival");
   wr.variable("density_error", grid, stack(tables, &LawTable::density_error), "1",
               "estimated absolute error of density");
+  // A file whose solve missed its target marks the entries that did (FORMAT.md, "Accuracy
+  // mark"), so downstream software need not compare every error with the setting itself.
+  if (auto it = meta.settings.find("target_error"); it != meta.settings.end()) {
+    if (const double* target = std::get_if<double>(&it->second)) {
+      std::vector<double> mark;
+      std::int64_t missed = 0;
+      for (const auto& t : tables)
+        for (Eigen::Index k = 0; k < t.cdf_error.size(); ++k) {
+          const bool ok = t.cdf_error.data()[k] <= *target && t.survival_error.data()[k] <= *target;
+          mark.push_back(ok ? 1.0 : 0.0);
+          missed += ok ? 0 : 1;
+        }
+      if (missed > 0) {
+        wr.variable("within_target", grid, mark, "1",
+                    "1 where cdf_error and survival_error are within setting_target_error, 0 where the solve missed it");
+        put_numbers(file, "entries_over_target", std::vector<std::int64_t>{missed}, std::vector<hsize_t>{});
+      }
+    }
+  }
   run_hook("datasets");
   if (!first.moments.empty()) {
     const std::pair<const char*, double Moments::*> fields[] = {{"mean", &Moments::mean},

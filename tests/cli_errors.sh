@@ -205,6 +205,25 @@ expect 65 "quantile bit-flipped table" quantile --probability 0.5 --table flippe
 "$edgelaw" --version > stdout.txt 2> stderr.txt
 if [[ $? -ne 0 || ! -s stdout.txt || -s stderr.txt ]]; then echo "FAIL --version"; failures=$((failures + 1)); fi
 
+# A missed target (16-interval base grid, 3 levels, target 1e-10: estimates ~1e-4): exit 70,
+# the region over the target named on the last line, nothing written; --keep-unconverged
+# writes the file and says that the failed entries are marked.
+coarse=("${tiny[@]}" --base-intervals 16 --max-levels 3 --target 1e-10)
+"$edgelaw" table "${coarse[@]}" --output out.h5 > stdout.txt 2> stderr.txt
+got=$?
+if [[ $got -ne 70 || -e out.h5 ]] || ! tail -1 stderr.txt | grep -q "entries over the target, w in \[0, inf\], x in \[-1, 0\]"; then
+  echo "FAIL missed target: exit $got (want 70), last line: $(tail -1 stderr.txt)"; failures=$((failures + 1))
+else
+  echo "ok   missed target: exit 70: $(tail -1 stderr.txt)"
+fi
+"$edgelaw" table "${coarse[@]}" --keep-unconverged --output kept.h5 > stdout.txt 2> stderr.txt
+got=$?
+if [[ $got -ne 0 || ! -s kept.h5 ]] || ! grep -q "marked 0 in within_target" stderr.txt; then
+  echo "FAIL missed target kept: exit $got (want 0)"; failures=$((failures + 1))
+else
+  echo "ok   missed target kept: the failed entries are marked"
+fi
+
 if [[ $failures -ne 0 ]]; then
   echo "$failures failures"
   exit 1

@@ -3,6 +3,7 @@
 #include "tables/table_file.h"
 #include "tables/table_seal.h"
 
+#include <algorithm>
 #include <gtest/gtest.h>
 #include <hdf5.h>
 
@@ -373,6 +374,42 @@ TEST_F(TablesTest, DamagedAndForeignFilesGiveOneClearError) {
   fs::copy_file(good, file("swapped.h5"));
   overwrite_dataset(file("swapped.h5"), "log_cdf", [](std::vector<double>& v) { v[5] *= 0.5; });
   expect_error<TableFormatError>([&] { LawTableFile::open(file("swapped.h5")); }, "is not the logarithm");
+}
+
+// Files that missed their target mark the entries that did (FORMAT.md, "Accuracy mark"): the
+// mark follows the stored errors against setting_target_error, converged files carry none,
+// and a mark that disagrees with the errors is refused.
+TEST_F(TablesTest, EntriesOverTheTargetAreMarked) {
+  LawTable t = small_table();
+  t.summary.converged = false;
+  t.cdf_error(1, 7) = 3e-10;       // over the 1e-10 target of small_metadata
+  t.survival_error(3, 200) = 2e-9;
+  const std::string path = file("missed.h5");
+  write_table(path, t, small_metadata());
+  hid_t f = H5Fopen(path.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
+  ASSERT_GE(f, 0);
+  hid_t d = H5Dopen2(f, "within_target", H5P_DEFAULT);
+  ASSERT_GE(d, 0);
+  std::vector<double> mark(static_cast<std::size_t>(t.cdf.size()));
+  ASSERT_GE(H5Dread(d, H5T_NATIVE_DOUBLE, H5S_ALL, H5S_ALL, H5P_DEFAULT, mark.data()), 0);
+  H5Dclose(d);
+  H5Fclose(f);
+  const auto nx = static_cast<std::size_t>(t.cdf.cols());
+  EXPECT_EQ(mark[1 * nx + 7], 0.0);
+  EXPECT_EQ(mark[3 * nx + 200], 0.0);
+  EXPECT_EQ(std::count(mark.begin(), mark.end(), 0.0), 2);
+  EXPECT_EQ(std::count(mark.begin(), mark.end(), 1.0), static_cast<long>(mark.size()) - 2);
+  const LawTableFile back = LawTableFile::open(path);
+  EXPECT_FALSE(back.table().summary.converged);
+
+  const std::string good = file("good.h5");
+  write_table(good, small_table(), small_metadata());
+  f = H5Fopen(good.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
+  EXPECT_EQ(H5Lexists(f, "within_target", H5P_DEFAULT), 0) << "a file within its target needs no mark";
+  H5Fclose(f);
+
+  overwrite_dataset(path, "within_target", [](std::vector<double>& v) { v[0] = 0.0; });
+  expect_error<TableFormatError>([&] { LawTableFile::open(path); }, "disagrees with the stored errors");
 }
 
 TEST_F(TablesTest, FilesWithoutChecksumsAreRefused) {
