@@ -7,12 +7,16 @@
 #include <hdf5_hl.h>
 
 #include <fcntl.h>
+#include <signal.h>
 #include <unistd.h>
 
 #include <algorithm>
 #include <atomic>
 #include <chrono>
+#include <cctype>
+#include <cerrno>
 #include <cmath>
+#include <cstdlib>
 #include <cstdio>
 #include <ctime>
 #include <filesystem>
@@ -321,6 +325,35 @@ void fsync_path(const std::string& path, bool directory) {
   if (rc != 0) throw TableWriteError("fsync of '" + path + "' failed: " + std::generic_category().message(err));
 }
 
+// This host's name for temporary file names: [A-Za-z0-9.-] only, at most 64 characters.
+std::string host_tag() {
+  char name[256] = {};
+  if (::gethostname(name, sizeof name - 1) != 0) return "host";
+  std::string tag;
+  for (const char* c = name; *c && tag.size() < 64; ++c)
+    tag += (std::isalnum(static_cast<unsigned char>(*c)) || *c == '.' || *c == '-') ? *c : '_';
+  return tag.empty() ? "host" : tag;
+}
+
+// Removes "<prefix><pid>-<n>" files in dir whose pid is no longer running: what SIGKILL (or a
+// power cut) left of an earlier write of the same target on this host. The host in the prefix
+// keeps a writer on another machine sharing the folder safe; a live pid is never touched.
+void remove_stale_temporaries(const std::filesystem::path& dir, const std::string& prefix) {
+  std::error_code ec;
+  for (const auto& entry : std::filesystem::directory_iterator(dir, ec)) {
+    const std::string name = entry.path().filename().string();
+    if (name.compare(0, prefix.size(), prefix) != 0) continue;
+    const std::string rest = name.substr(prefix.size());
+    const auto dash = rest.find('-');
+    if (dash == 0 || dash == std::string::npos || rest.find_first_not_of("0123456789-") != std::string::npos) continue;
+    const long pid = std::strtol(rest.substr(0, dash).c_str(), nullptr, 10);
+    if (pid <= 0 || pid == ::getpid()) continue;
+    if (::kill(static_cast<pid_t>(pid), 0) == 0 || errno != ESRCH) continue;  // alive, or not ours to judge
+    std::error_code ignored;
+    std::filesystem::remove(entry.path(), ignored);
+  }
+}
+
 void write_file(const std::string& path, const std::vector<LawTable>& tables, bool sweep,
                 const TableMetadata& meta, const TableWriteOptions& options) {
   namespace fs = std::filesystem;
@@ -334,10 +367,12 @@ void write_file(const std::string& path, const std::vector<LawTable>& tables, bo
     throw TableWriteError("cannot write '" + path + "': folder '" + dir.string() + "' does not exist");
   if (fs::is_directory(target, ec)) throw TableWriteError("cannot write '" + path + "': it is a folder");
 
-  // Same folder as the target so the rename is atomic; the name is unique per process/call.
+  // Same folder as the target so the rename is atomic; the name is unique per host, process
+  // and call. Temporaries that a killed writer on this host left for this target go first.
   static std::atomic<unsigned> counter{0};
-  const fs::path tmp = dir / ("." + target.filename().string() + ".tmp-" + std::to_string(::getpid()) + "-" +
-                              std::to_string(counter++));
+  const std::string prefix = "." + target.filename().string() + ".tmp-" + host_tag() + "-";
+  remove_stale_temporaries(dir, prefix);
+  const fs::path tmp = dir / (prefix + std::to_string(::getpid()) + "-" + std::to_string(counter++));
   Hdf5QuietErrors quiet;
   bool created = false;
   try {

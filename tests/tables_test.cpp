@@ -412,6 +412,29 @@ TEST_F(TablesTest, EntriesOverTheTargetAreMarked) {
   expect_error<TableFormatError>([&] { LawTableFile::open(path); }, "disagrees with the stored errors");
 }
 
+// A write removes what killed writers of the same target on this host left (their pid is not
+// running), and nothing else: not a live writer's temporary (pid 1 always runs), not another
+// host's, not another target's. Host names here use the writer's rule ([A-Za-z0-9.-]).
+TEST_F(TablesTest, StaleTemporariesOfTheTargetAreRemoved) {
+  char host[256] = {};
+  ASSERT_EQ(::gethostname(host, sizeof host - 1), 0);
+  std::string tag;
+  for (const char* c = host; *c && tag.size() < 64; ++c)
+    tag += (std::isalnum(static_cast<unsigned char>(*c)) || *c == '.' || *c == '-') ? *c : '_';
+  // A pid that is surely not running: above the kernel's pid_max (at most 2^22).
+  const std::string dead = file(".t.h5.tmp-" + tag + "-9999999-0");
+  const std::string live = file(".t.h5.tmp-" + tag + "-1-0");
+  const std::string elsewhere = file(".t.h5.tmp-another-host.example-9999999-0");
+  const std::string other_target = file(".u.h5.tmp-" + tag + "-9999999-0");
+  for (const auto& p : {dead, live, elsewhere, other_target}) spill(p, {'x'});
+  write_table(file("t.h5"), small_table(), small_metadata());
+  EXPECT_FALSE(fs::exists(dead));
+  EXPECT_TRUE(fs::exists(live));
+  EXPECT_TRUE(fs::exists(elsewhere));
+  EXPECT_TRUE(fs::exists(other_target));
+  EXPECT_NO_THROW(LawTableFile::open(file("t.h5")));
+}
+
 TEST_F(TablesTest, FilesWithoutChecksumsAreRefused) {
   // The reader only reads the writer's layout (chunked, Fletcher-32); without the checksum a
   // damaged chunk index sends HDF5 1.10.8 past its buffers (tests/fuzz/table_reader_fuzz).
