@@ -14,10 +14,14 @@
 #include <sstream>
 #include <thread>
 
+#include <fcntl.h>
 #include <signal.h>
+#include <sys/file.h>
+#include <unistd.h>
 
 #include <cerrno>
 #include <cstdlib>
+#include <cstring>
 
 #include "cli/atomic_file.h"
 #include "cli/commands.h"
@@ -116,6 +120,42 @@ std::string slice_mismatch(const LawTableFile& f, double beta, const std::vector
 
 namespace {
 
+// One sweep at a time per output: an exclusive flock on FILE.parts/.lock, held until the
+// process ends. Two sweeps to the same file would otherwise share the checkpoint folder and one
+// could delete it under the other's assembly. File systems without flock (ENOLCK, EOPNOTSUPP on
+// some NFS setups) run unlocked, as before.
+class SweepLock {
+ public:
+  SweepLock(const fs::path& parts_dir, const std::string& output) : path_(parts_dir / ".lock") {
+    fd_ = ::open(path_.c_str(), O_RDWR | O_CREAT | O_CLOEXEC, 0644);
+    if (fd_ < 0) throw OutputError("cannot create the sweep lock " + path_.string() + ": " + std::strerror(errno));
+    if (::flock(fd_, LOCK_EX | LOCK_NB) != 0) {
+      const int err = errno;
+      if (err == EWOULDBLOCK) {
+        ::close(fd_);
+        fd_ = -1;
+        throw OutputError("another sweep is writing " + output + " (it holds " + path_.string() +
+                          "); wait for it or choose another --output");
+      }
+      // No locking on this file system: carry on unlocked.
+    }
+  }
+  SweepLock(const SweepLock&) = delete;
+  SweepLock& operator=(const SweepLock&) = delete;
+  ~SweepLock() {
+    if (fd_ >= 0) ::close(fd_);
+  }
+  // Before the folder itself is removed (or found empty): the lock file goes first.
+  void remove_file() {
+    std::error_code ec;
+    fs::remove(path_, ec);
+  }
+
+ private:
+  fs::path path_;
+  int fd_ = -1;
+};
+
 using Clock = std::chrono::steady_clock;
 
 double seconds_since(Clock::time_point start) {
@@ -136,20 +176,6 @@ double worst_error(const std::vector<LawTable>& tables) {
   double e = 0;
   for (const auto& t : tables) e = std::max({e, t.summary.max_cdf_error, t.summary.max_survival_error});
   return e;
-}
-
-// Removes the temporaries a killed writer leaves behind (".<name>.tmp-<pid>-<n>"), but not
-// those of a writer that is still running (another sweep started on the same output).
-void remove_stale_temporaries(const fs::path& dir) {
-  std::error_code ec;
-  for (const auto& entry : fs::directory_iterator(dir, ec)) {
-    const std::string name = entry.path().filename().string();
-    const auto at = name.find(".tmp-");
-    if (name.size() < 2 || name[0] != '.' || at == std::string::npos) continue;
-    const long pid = std::atol(name.c_str() + at + 5);
-    if (pid > 0 && (::kill(static_cast<pid_t>(pid), 0) == 0 || errno == EPERM)) continue;  // alive
-    fs::remove(entry.path(), ec);
-  }
 }
 
 }  // namespace
@@ -181,7 +207,9 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
     fs::create_directories(parts_dir, ec);
     if (ec || !fs::is_directory(parts_dir))
       throw OutputError("cannot create checkpoint folder " + parts_dir.string() + ": " + ec.message());
-    remove_stale_temporaries(parts_dir);
+    SweepLock lock_output(parts_dir, c.output);
+    // Slice temporaries a killed sweep left are removed when their slice is written again
+    // (write_table: same host, writer no longer running).
 
     // Which slices are already done (and valid for this request)?
     std::vector<std::size_t> todo;
@@ -262,6 +290,7 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
     }
     if (first_error) {
       // Finished slices stay for a resume; a checkpoint folder with none is only clutter.
+      lock_output.remove_file();
       if (fs::is_empty(parts_dir, ec)) fs::remove(parts_dir, ec);
       std::rethrow_exception(first_error);
     }

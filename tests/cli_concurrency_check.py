@@ -1,6 +1,7 @@
 #!/usr/bin/env python3
 """End-to-end test of concurrent use: (1) two sweeps writing different files at the same time
-give the same numbers, bit for bit, as one sweep run alone; (2) a reader opening a table again
+give the same numbers, bit for bit, as one sweep run alone, and a second sweep to the same
+file is refused while the first runs; (2) a reader opening a table again
 and again while another process keeps replacing it always sees one complete table, either the
 old or the new one, never an error or a mixture.
 
@@ -66,6 +67,24 @@ def main():
     for k in (1, 2):
         check(identical(alone, contents(f"together{k}.h5")), f"concurrent sweep {k} == sweep alone, bit for bit")
         check(not os.path.exists(f"together{k}.h5.parts"), f"concurrent sweep {k} removed its checkpoint folder")
+
+    # (1b) Two sweeps at once to the same file: the second finds the first's lock on the
+    # checkpoint folder and refuses at once (exit 73, one line, nothing of its own written);
+    # the first finishes untouched and equals the sweep alone. Without the lock both shared
+    # FILE.parts/ and the first to finish deleted it under the other's assembly.
+    first = subprocess.Popen(sweep + ["--output", "same.h5"], stdout=subprocess.DEVNULL,
+                             stderr=subprocess.PIPE, text=True)
+    deadline = time.time() + 60
+    while not os.path.exists("same.h5.parts/.lock") and time.time() < deadline and first.poll() is None:
+        time.sleep(0.01)
+    second = subprocess.run(sweep + ["--output", "same.h5"], capture_output=True, text=True)
+    first_code = first.wait(timeout=300)
+    err = second.stderr.strip().splitlines()
+    check(second.returncode == 73 and len(err) == 1 and "another sweep is writing same.h5" in err[0],
+          f"second sweep to the same file refused (exit {second.returncode}, stderr {err})")
+    check(first_code == 0 and identical(alone, contents("same.h5")),
+          f"first sweep to the same file finished (exit {first_code}) and == sweep alone")
+    check(not os.path.exists("same.h5.parts"), "first sweep removed the shared checkpoint folder")
 
     # (2) Reader while another process replaces the table.
     with open("points.csv", "w") as f:
