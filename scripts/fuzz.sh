@@ -8,7 +8,7 @@ cd "$(dirname "$0")/.."
 seconds=${1:-45}
 shift || true
 harnesses=("$@")
-[ ${#harnesses[@]} -eq 0 ] && harnesses=(table_reader_fuzz csv_reader_fuzz)
+[ ${#harnesses[@]} -eq 0 ] && harnesses=(table_reader_fuzz csv_reader_fuzz matrix_csv_fuzz)
 bash scripts/setup.sh clang libclang-rt-14-dev
 CC=clang CXX=clang++ cmake -S . -B build-fuzz -G Ninja -DCMAKE_BUILD_TYPE=RelWithDebInfo -DEDGELAW_FUZZ=ON \
   -DEDGELAW_BUILD_TESTS=OFF -DEDGELAW_BUILD_BENCH=OFF >/dev/null
