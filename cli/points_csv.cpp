@@ -1,6 +1,8 @@
 // CSV parsing for the evaluate command: strict, with line numbers in every error.
 #include "cli/points_csv.h"
 
+#include "stats/csv_fields.h"
+
 #include <charconv>
 #include <cmath>
 #include <limits>
@@ -9,21 +11,8 @@
 namespace edgelaw {
 
 namespace {
-std::string trim(const std::string& s) {
-  const auto b = s.find_first_not_of(" \t\r");
-  if (b == std::string::npos) return {};
-  const auto e = s.find_last_not_of(" \t\r");
-  return s.substr(b, e - b + 1);
-}
-
-std::vector<std::string> split(const std::string& line) {
-  std::vector<std::string> out;
-  std::string field;
-  std::istringstream in(line);
-  while (std::getline(in, field, ',')) out.push_back(trim(field));
-  if (!line.empty() && line.back() == ',') out.emplace_back();
-  return out;
-}
+using csv::split;
+using csv::trim;
 }  // namespace
 
 double parse_number(const std::string& text, bool allow_inf) {

@@ -1,6 +1,8 @@
 // CSV matrices, their top eigenvalues (Eigen's symmetric eigensolver) and noise estimates.
 #include "stats/data_matrix.h"
 
+#include "stats/csv_fields.h"
+
 #include <Eigen/Eigenvalues>
 
 #include <charconv>
@@ -11,21 +13,8 @@
 namespace edgelaw {
 namespace {
 
-std::string trim(const std::string& s) {
-  const auto b = s.find_first_not_of(" \t\r");
-  if (b == std::string::npos) return "";
-  const auto e = s.find_last_not_of(" \t\r");
-  return s.substr(b, e - b + 1);
-}
-
-std::vector<std::string> split(const std::string& line) {
-  std::vector<std::string> out;
-  std::string field;
-  std::istringstream in(line);
-  while (std::getline(in, field, ',')) out.push_back(trim(field));
-  if (!line.empty() && line.back() == ',') out.push_back("");
-  return out;
-}
+using csv::split;
+using csv::trim;
 
 bool parse(const std::string& s, double& v) {
   if (s.empty()) return false;
