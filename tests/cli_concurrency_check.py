@@ -9,7 +9,6 @@ Why (2) must hold: writers publish with rename(2), which replaces the name atomi
 and readers open the name once; HDF5 file locking is off (tables/FORMAT.md), so a reader never
 waits on or fails because of a writer.
 """
-import argparse
 import os
 import shutil
 import subprocess
@@ -19,18 +18,14 @@ import time
 import h5py
 import numpy as np
 
+from cli_check_common import check, failures, setup
+
 TINY = ["--x-min", "-3", "--x-max", "1", "--x-step", "0.5", "--w-min", "0", "--w-max", "1",
         "--w-step", "1", "--target", "1e-6"]
 # Two versions of the same table that differ in every digit beyond the error estimate: the
 # coarsest angle grid changes the Richardson extrapolation.
 VERSION = {"A": ["--base-intervals", "100"], "B": ["--base-intervals", "64"]}
-failures = []
 
-
-def check(ok, what):
-    print(("ok   " if ok else "FAIL ") + what, flush=True)
-    if not ok:
-        failures.append(what)
 
 
 def contents(path):
@@ -46,14 +41,7 @@ def identical(a, b):
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--edgelaw", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    edgelaw = os.path.abspath(a.edgelaw)
-    shutil.rmtree(a.workdir, ignore_errors=True)
-    os.makedirs(a.workdir)
-    os.chdir(a.workdir)
+    edgelaw = setup()
 
     # (1) Two sweeps at once, each to its own file, against one run alone.
     sweep = [edgelaw, "sweep", "--betas", "2,3", *TINY, "--base-intervals", "100", "--threads", "1"]

@@ -9,9 +9,7 @@ temporary (removed by the next write of that target) but never touches the final
 run again equals an uninterrupted sweep value for value (bit for bit in every variable).
 Common practice, no source.
 """
-import argparse
 import os
-import shutil
 import signal
 import subprocess
 import sys
@@ -19,6 +17,8 @@ import time
 
 import h5py
 import numpy as np
+
+from cli_check_common import check, failures, setup
 
 TINY = ["--x-min", "-3", "--x-max", "1", "--x-step", "0.5", "--w-min", "0", "--w-max", "1",
         "--w-step", "1", "--target", "1e-6", "--base-intervals", "100"]
@@ -32,13 +32,7 @@ LONG_WRITE = ["--x-min", "-6", "--x-max", "8", "--x-step", "0.005", "--w-min", "
               "--w-step", "0.02", "--target", "1e-6", "--base-intervals", "100", "--max-levels", "3",
               "--keep-unconverged"]
 BETAS = "2,3,4"
-failures = []
 
-
-def check(ok, what):
-    print(("ok   " if ok else "FAIL ") + what, flush=True)
-    if not ok:
-        failures.append(what)
 
 
 def temporaries(folder="."):
@@ -131,14 +125,7 @@ def interrupted_write(edgelaw, sig, name):
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--edgelaw", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    edgelaw = os.path.abspath(a.edgelaw)
-    shutil.rmtree(a.workdir, ignore_errors=True)
-    os.makedirs(a.workdir)
-    os.chdir(a.workdir)
+    edgelaw = setup()
 
     interrupted_solve(edgelaw, signal.SIGINT, 130, "SIGINT")
     interrupted_solve(edgelaw, signal.SIGTERM, 143, "SIGTERM")

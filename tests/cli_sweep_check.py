@@ -8,9 +8,7 @@ agrees with evaluate (a solve) within the sum of both error estimates. Identity 
 (every variable, bit for bit, and the settings), since both routes assemble the final file
 from the same deterministic slices (common practice, no source).
 """
-import argparse
 import os
-import shutil
 import signal
 import subprocess
 import sys
@@ -19,16 +17,12 @@ import time
 import h5py
 import numpy as np
 
+from cli_check_common import check, failures, setup
+
 GRID = ["--x-min", "-3", "--x-max", "1", "--x-step", "0.5", "--w-min", "0", "--w-max", "1",
         "--w-step", "1", "--target", "1e-6", "--base-intervals", "100"]
 BETAS = "2,3,4"
-failures = []
 
-
-def check(ok, what):
-    print(("ok   " if ok else "FAIL ") + what)
-    if not ok:
-        failures.append(what)
 
 
 def run(edgelaw, *args):
@@ -67,14 +61,7 @@ def same(a, b, what):
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--edgelaw", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    edgelaw = os.path.abspath(a.edgelaw)
-    shutil.rmtree(a.workdir, ignore_errors=True)
-    os.makedirs(a.workdir)
-    os.chdir(a.workdir)
+    edgelaw = setup()
 
     # Uninterrupted reference run.
     run(edgelaw, "sweep", "--betas", BETAS, *GRID, "--output", "full.h5")
