@@ -11,21 +11,13 @@ namespace {
 constexpr double kAiryZero = -2.338107410459767;  // a_1, first zero of Ai (DLMF 9.9.1, Table 9.9.1)
 // Tail depth in e-folds: e^-40 ~ 4e-18 is below anything a double cdf or a moment can see.
 constexpr double kTailDepth = 40.0;
-// Nodes per front width on the coarsest level at the narrowest front (x = x_high). With 0.36
-// (beta = 2, x_high = 160, needed for w = -12) the semi-discrete operator had a growing mode
-// (Re lambda = +6.7 at 200 intervals, stable at 400: measured with the spectrum probe of
-// tests/solver_operator_test.cpp). So every plan gets at least kNodesPerFront. It was 4 while
-// the coarsest grids were fixed at 200 (beta = 2); with grids that follow the target, 2 lets
-// the 1e-8 table use 72/144/288, which the default table confirms (estimate 2.9e-9 against a
-// measured 5.4e-10, every entry inside its estimate).
-constexpr double kNodesPerFront = 2.0;
-// Automatic grids (see make_plan): coarsest level at target 1e-10 for beta <= 2, its floor at
-// loose targets, and the front weight they use.
-constexpr double kBaseIntervals = 144.0;
-// Not below 72: 48/96/192 (target 1e-7) left 1411 of the default table's entries outside
-// their estimates (by up to 3.8x; the levels are not yet in the asymptotic range).
-constexpr int kMinBaseIntervals = 72;
-constexpr double kAutomaticFrontWeight = 12.0;
+// Nodes per front width on the coarsest level at the narrowest front (x = x_high). The default
+// beta = 2 table (x_high ~ 15) has 5.4 with the standing weight 4 and 200 intervals (beta = 1:
+// 4.6, beta = 4: 6.0), so its plan is unchanged;
+// with 0.36 (beta = 2, x_high = 160, needed for w = -12) the semi-discrete operator had a
+// growing mode (Re lambda = +6.7 at 200 intervals, stable at 400: measured with the spectrum
+// probe of tests/solver_operator_test.cpp). So every plan gets at least kNodesPerFront.
+constexpr double kNodesPerFront = 4.0;
 
 // Width in theta of the cdf's jump across the unstable branch at x (see grid_density).
 double front_width(double beta, double x) {
@@ -118,21 +110,10 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
     plan.base_intervals = options.base_intervals;
   } else {
     // Front widths in theta shrink like beta^{-1/2}, but the levels added on demand take care
-    // of that; a base growing like beta^{1/4} from the 144 intervals that suit beta = 2 at
-    // 1e-10 keeps large beta affordable (beta = 100 with a quarter of 400 sqrt(beta/2)
-    // converged to 1e-7 with the former fourth-order stencils).
-    // The coarsest grid also follows the target: the spatial error falls like N^-6, so a grid
-    // (1e-10 / target)^(1/6) times coarser serves a looser target (1e-8: 72 instead of 144).
-    // Measured on the default beta = 2 table against Fredholm values (bench/fredholm_beta2):
-    // 144/288/576 at 1e-10 estimate 8.4e-11, error 9.4e-12; 72/144/288 at 1e-8 estimate 3.0e-9,
-    // error 5.4e-10.
-    const double coarsen = std::min(1.0, std::pow(1e-10 / options.target_error, 1.0 / 6.0));
-    const double base = kBaseIntervals * std::max(1.0, std::pow(beta / 2.0, 0.25)) * coarsen;
-    plan.base_intervals = std::max(kMinBaseIntervals, static_cast<int>(std::ceil(base / 8.0) * 8));
-    // Most of the spatial error sits at the front: with the weight 4 the level differences on
-    // the default table were ~100 times larger on rows w < 0 near x = 8 than on rows w >= 0,
-    // and the former 200/400/800 grids were needed; weight 12 evens them out.
-    plan.front_weight = kAutomaticFrontWeight;
+    // of that; a base growing like beta^{1/4} from the 200 intervals that suit beta = 2 with
+    // the sixth-order stencils (400 with the former fourth-order ones) keeps large beta
+    // affordable (beta = 100 with a quarter of 400 sqrt(beta/2) converged to 1e-7 at fourth order).
+    plan.base_intervals = static_cast<int>(std::ceil(200.0 * std::max(1.0, std::pow(beta / 2.0, 0.25)) / 8.0) * 8);
   }
   // The front must be resolved over the whole integration, not only the requested x: errors
   // made above x_top are carried down (measured on the default table with the fourth-order
