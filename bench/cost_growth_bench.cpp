@@ -87,7 +87,7 @@ Result run_level(int intervals, double x_min) {
   std::vector<double> outputs(req.x.rbegin(), req.x.rend());
   std::vector<double> table(req.w.size() * req.x.size());
   double interp = 0, checksum = 0;
-  const OutputObserver record = [&](int index, double, const double* nodal, const double*) {
+  const OutputObserver record = [&](int index, double, const double* nodal, const double*, bool) {
     const auto s0 = std::chrono::steady_clock::now();
     for (std::size_t r = 0; r < weights.size(); ++r) {
       double v = 0;

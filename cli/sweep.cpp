@@ -241,6 +241,9 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
     // Workers take the next beta; every finished slice is on disk before it counts as done.
     set_interrupt_note("finished betas stay in " + parts_dir.string() + "; run the same command again to resume");
     const std::size_t workers = std::min<std::size_t>(todo.size(), c.threads > 0 ? c.threads : cores);
+    // Concurrent betas already fill the cores; a lone worker may split its own grid levels.
+    SolverOptions solve_options = opt;
+    solve_options.parallel_levels = workers <= 1;
     std::atomic<std::size_t> next{0};
     std::atomic<bool> stop{false};
     std::mutex lock;  // guards progress output, the first error and HDF5 (not known to be thread safe)
@@ -256,7 +259,7 @@ int run_sweep(const SweepCommand& c, const Invocation& inv) {
         try {
           LawRequest req = base;
           req.beta = beta;
-          LawTable t = solve_law(req, opt);
+          LawTable t = solve_law(req, solve_options);
           if (!t.summary.converged && !c.grid.keep_unconverged)
             throw SolveError("beta " + format_double(beta) + ": accuracy target " + format_double(c.grid.target) +
                              " not reached (max estimated error " +

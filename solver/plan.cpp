@@ -129,6 +129,7 @@ Plan make_plan(const LawRequest& req, const SolverOptions& options) {
   // tighter tolerance buys nothing.
   plan.bulk_cap = std::max(options.target_error / 4.0, plan.time_error_floor) / plan.time_error_factor;
   plan.tail_relative_cap = options.tail_relative_error / (4.0 * plan.time_error_factor);
+  plan.complement_above = std::clamp(4.0 * plan.bulk_cap / plan.tail_relative_cap, 1e-6, 0.5);
   return plan;
 }
 

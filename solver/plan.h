@@ -17,6 +17,11 @@ struct Plan {
   double floor = 1e-30;
   double bulk_cap = 1e-10;
   double tail_relative_cap = 1e-6;
+  // The run switches from the survival S to the cdf F = 1 - S once S is at least this at every
+  // node (BackwardProblem::complement_above). From there S = 1 - F has the absolute accuracy of
+  // F, which is a relative accuracy of bulk / complement_above: the switch sits where the
+  // survival's own error control had already become absolute (tail_relative * S >= bulk).
+  double complement_above = 0.5;
   double bulk_tolerance_at(int level) const;
   double tail_relative_at(int level) const;
   // Global time error relative to the local tolerances, and the level below which BDF's

@@ -19,7 +19,9 @@
 #include <numbers>
 #include <exception>
 #include <sstream>
-#include <thread>
+#include <atomic>
+#include <future>
+#include <utility>
 
 #include "grids/angle_grid.h"
 #include "solver/backward_run.h"
@@ -40,6 +42,8 @@ struct LevelResult {
   RowMatrix cdf, survival, density;
   std::vector<Moments> moments;
   std::vector<double> mass;  // integral of the density over the range: ~1 when the range covers the law
+  // Per requested x: 1 where the run carried the survival (x above the switch), 0 where the cdf.
+  std::vector<char> survival_direct;
   IntegratorCounters counters;
 };
 
@@ -75,7 +79,7 @@ Moments central_moments(const std::array<double, 5>& m, double centre) {
 }
 
 LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, const std::vector<double>& centres,
-                        bool want_moments) {
+                        bool want_moments, const std::atomic<bool>* cancel) {
   const int intervals = plan.base_intervals << level;
   // Time tolerances shrink by 16 a level and are capped from the target (see
   // Plan::bulk_tolerance_at); the integrator's error reaches the estimate through
@@ -98,13 +102,17 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
   out.cdf.resize(rows, cols);
   out.survival.resize(rows, cols);
   out.density.resize(rows, cols);
+  out.survival_direct.assign(cols, 1);
 
   std::vector<std::array<double, 5>> sums(rows, std::array<double, 5>{});
   std::vector<double> full(n + 1), slope(n + 1, 0.0);
-  const StepObserver accumulate = [&](double x_new, double x_old, const DenseOutput& dense) {
+  // The run carries the survival S from the terminal x down to where S is large everywhere, then
+  // the cdf F = 1 - S (BackwardProblem::complement_above): the density is dF/dx = -dS/dx before.
+  const StepObserver accumulate = [&](double x_new, double x_old, const DenseOutput& dense, bool complemented) {
+    const double sign = complemented ? 1.0 : -1.0;
     const double half = 0.5 * (x_old - x_new), mid = 0.5 * (x_old + x_new);
     for (int q = 0; q < kQuadratureNodes; ++q) {
-      const double x = mid + half * kGaussNodes[q], wq = half * kGaussWeights[q];
+      const double x = mid + half * kGaussNodes[q], wq = sign * half * kGaussWeights[q];
       dense(x, full.data(), slope.data());
       for (int r = 0; r < rows; ++r) {
         const double f = interpolate(weights[r], slope.data()) * wq;
@@ -119,47 +127,34 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
     }
   };
 
-  // The cdf and the survival runs are independent: the survival runs on a second thread.
-  auto run = [&](bool survival) {
-    BackwardProblem problem;
-    problem.op = &op;
-    problem.boundary = survival ? 1.0 : 0.0;
-    problem.x_start = plan.x_high;
-    problem.x_end = plan.x_low;
-    problem.bulk_tolerance = plan.bulk_tolerance_at(level);
-    problem.tail_relative = plan.tail_relative_at(level);
-    problem.floor = plan.floor;
-    problem.initial.resize(n);
-    for (int i = 0; i < n; ++i) problem.initial[i] = terminal_cdf(req.beta, plan.x_high, grid.theta(i), survival);
-    RowMatrix& table = survival ? out.survival : out.cdf;
-    const OutputObserver record = [&](int index, double, const double* nodal, const double* nodal_slope) {
-      const int col = cols - 1 - index;
-      for (int r = 0; r < rows; ++r) {
-        table(r, col) = interpolate(weights[r], nodal);
-        // The density is the x-derivative of the interpolated cdf.
-        if (!survival) out.density(r, col) = interpolate(weights[r], nodal_slope);
-      }
-    };
-    return integrate_backward(problem, outputs, record, (!survival && want_moments) ? accumulate : StepObserver{});
-  };
-  IntegratorCounters survival_counters;
-  std::exception_ptr survival_error;
-  std::thread survival_thread([&] {
-    try {
-      survival_counters = run(true);
-    } catch (...) {
-      survival_error = std::current_exception();
+  BackwardProblem problem;
+  problem.op = &op;
+  problem.boundary = 1.0;  // the survival: explosion at theta = pi
+  problem.x_start = plan.x_high;
+  problem.x_end = plan.x_low;
+  problem.bulk_tolerance = plan.bulk_tolerance_at(level);
+  problem.tail_relative = plan.tail_relative_at(level);
+  problem.floor = plan.floor;
+  problem.complement_above = plan.complement_above;
+  problem.cancel = cancel;
+  problem.left_tail_rate = req.beta / 24.0;  // log F ~ -(beta/24)|x|^3 (design notes, section 1)
+  problem.initial.resize(n);
+  for (int i = 0; i < n; ++i) problem.initial[i] = terminal_cdf(req.beta, plan.x_high, grid.theta(i), true);
+  const OutputObserver record = [&](int index, double, const double* nodal, const double* nodal_slope,
+                                    bool complemented) {
+    const int col = cols - 1 - index;
+    RowMatrix& direct = complemented ? out.cdf : out.survival;
+    RowMatrix& other = complemented ? out.survival : out.cdf;
+    const double sign = complemented ? 1.0 : -1.0;
+    out.survival_direct[col] = complemented ? 0 : 1;
+    for (int r = 0; r < rows; ++r) {
+      const double v = interpolate(weights[r], nodal);
+      direct(r, col) = v;
+      other(r, col) = 1.0 - v;
+      out.density(r, col) = sign * interpolate(weights[r], nodal_slope);
     }
-  });
-  try {
-    out.counters += run(false);
-  } catch (...) {
-    survival_thread.join();
-    throw;
-  }
-  survival_thread.join();
-  if (survival_error) std::rethrow_exception(survival_error);
-  out.counters += survival_counters;
+  };
+  out.counters = integrate_backward(problem, outputs, record, want_moments ? accumulate : StepObserver{});
   if (want_moments) {
     out.moments.resize(rows);
     out.mass.resize(rows);
@@ -183,8 +178,13 @@ double observed_order(const RowMatrix& coarse, const RowMatrix& middle, const Ro
 // Extrapolated value and error estimate from three levels with order p, plus the integrator's
 // floor: the time error, which the level differences do not show (global error of BDF measured
 // at up to ~490 times its local tolerance on this problem; see Plan::time_error_factor).
+// `relative` marks the entries whose integrator error is relative (the quantity integrated
+// directly and small); the others, computed as 1 - the integrated quantity or near 1, keep the
+// absolute floor.
+using EntryMask = Eigen::Array<bool, Eigen::Dynamic, Eigen::Dynamic, Eigen::RowMajor>;
 void richardson(const RowMatrix& c, const RowMatrix& m, const RowMatrix& f, double p, double floor_absolute,
-                double floor_relative, RowMatrix& value, RowMatrix& error) {
+                double floor_relative, double floor_least, const EntryMask& relative, RowMatrix& value,
+                RowMatrix& error) {
   const double g = std::pow(2.0, p);
   value.resize(f.rows(), f.cols());
   error.resize(f.rows(), f.cols());
@@ -192,8 +192,10 @@ void richardson(const RowMatrix& c, const RowMatrix& m, const RowMatrix& f, doub
     const double d_fine = f.data()[i] - m.data()[i];
     const double d_coarse = m.data()[i] - c.data()[i];
     value.data()[i] = f.data()[i] + d_fine / (g - 1.0);
-    error.data()[i] = std::max(std::abs(d_fine), std::abs(d_coarse) / g) / (g - 1.0) +
-                      std::min(floor_absolute, floor_relative * std::abs(value.data()[i]));
+    const double floor = relative.data()[i]
+                             ? std::max(std::min(floor_absolute, floor_relative * std::abs(value.data()[i])), floor_least)
+                             : floor_absolute;
+    error.data()[i] = std::max(std::abs(d_fine), std::abs(d_coarse) / g) / (g - 1.0) + floor;
   }
 }
 
@@ -279,7 +281,7 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
   if (auto why = options.check(); !why.empty()) throw SolveError(why);
   const Plan plan = make_plan(req, options);
 
-  const int rows = static_cast<int>(req.w.size());
+  const int rows = static_cast<int>(req.w.size()), cols = static_cast<int>(req.x.size());
   std::vector<double> centres(rows);
   for (int r = 0; r < rows; ++r) centres[r] = plan.moment_centre(req.w[r]);
 
@@ -302,9 +304,28 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
                            " grid levels from " + std::to_string(plan.base_intervals) + " intervals, x in [" +
                            seconds_text(plan.x_low) + ", " + seconds_text(plan.x_high) +
                            "]), over the time budget of " + seconds_text(options.max_seconds) + " s");
+  // The first min_levels levels are all needed, and the finest of them is most of the work
+  // (~70% with three): it starts at once on a second thread, the coarser ones run here in turn.
+  struct Prefetch {
+    int level = -1;
+    std::atomic<bool> cancel{false};
+    std::future<std::pair<LevelResult, double>> result;
+    ~Prefetch() {
+      cancel = true;  // an early exit (error, budget) must not wait for a whole level
+      if (result.valid()) result.wait();
+    }
+  } prefetch;
+  if (options.parallel_levels && options.min_levels >= 2) {
+    prefetch.level = options.min_levels - 1;
+    prefetch.result = std::async(std::launch::async, [&, centres_now = centres] {
+      const auto level_start = std::chrono::steady_clock::now();
+      LevelResult r = solve_level(req, plan, prefetch.level, centres_now, options.moments, &prefetch.cancel);
+      return std::pair{std::move(r), std::chrono::duration<double>(std::chrono::steady_clock::now() - level_start).count()};
+    });
+  }
   for (int level = 0; level < options.max_levels; ++level) {
     const int intervals = plan.base_intervals << level;
-    if (level > 0) {
+    if (level > 0 && level != prefetch.level) {
       const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
       const double ahead = projected_seconds(s.level_seconds, level, options.min_levels);
       if (elapsed + ahead > options.max_seconds)
@@ -317,9 +338,15 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
     if (level > 0 && options.moments)
       for (int r = 0; r < rows; ++r)
         if (std::isfinite(levels.back().moments[r].mean)) centres[r] = levels.back().moments[r].mean;
-    const auto level_start = std::chrono::steady_clock::now();
-    levels.push_back(solve_level(req, plan, level, centres, options.moments));
-    s.level_seconds.push_back(std::chrono::duration<double>(std::chrono::steady_clock::now() - level_start).count());
+    if (level == prefetch.level) {
+      auto [result, seconds] = prefetch.result.get();
+      levels.push_back(std::move(result));
+      s.level_seconds.push_back(seconds);
+    } else {
+      const auto level_start = std::chrono::steady_clock::now();
+      levels.push_back(solve_level(req, plan, level, centres, options.moments, nullptr));
+      s.level_seconds.push_back(std::chrono::duration<double>(std::chrono::steady_clock::now() - level_start).count());
+    }
     const auto& c = levels.back().counters;
     s.intervals.push_back(intervals);
     s.steps.push_back(c.steps);
@@ -341,12 +368,36 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
     const double floor_abs = std::max(plan.time_error_factor * plan.bulk_tolerance_at(finest), plan.time_error_floor);
     const double floor_rel = plan.time_error_factor * plan.tail_relative_at(finest);
     s.max_time_error = floor_abs;
-    richardson(L0.cdf, L1.cdf, L2.cdf, p, floor_abs, floor_rel, t.cdf, t.cdf_error);
-    richardson(L0.survival, L1.survival, L2.survival, p, floor_abs, floor_rel, t.survival, t.survival_error);
+    // An entry's error is relative only if every level integrated its quantity directly, and for
+    // the cdf only on rows w >= 0: at the switch, 1 - S gives the cdf beyond the unstable branch
+    // (w < 0, where it is far below 1e-16) only to the absolute accuracy of S, and that error
+    // decays below the switch only as those rows' own values do. Paths reaching rows w >= 0
+    // from there explode soon, so those rows keep their relative accuracy (measured against
+    // separate cdf and survival runs: 1e-7 relative down to 1e-20 on the default table).
+    EntryMask cdf_direct(rows, cols), survival_direct(rows, cols), density_relative(rows, cols);
+    for (Eigen::Index c = 0; c < cols; ++c) {
+      bool s_all = true, f_all = true;
+      for (const auto* L : {&L0, &L1, &L2}) {
+        s_all = s_all && L->survival_direct[c];
+        f_all = f_all && !L->survival_direct[c];
+      }
+      for (Eigen::Index r = 0; r < rows; ++r) {
+        cdf_direct(r, c) = f_all && req.w[r] >= 0;
+        survival_direct(r, c) = s_all;
+        // The density is the slope of the integrated quantity: relative where that is the small one.
+        density_relative(r, c) = (cdf_direct(r, c) && L2.cdf(r, c) <= 0.5) || (s_all && L2.survival(r, c) <= 0.5);
+      }
+    }
+    // Below the integrator's own floor (Plan::floor) values are not controlled at all.
+    const double floor_least = plan.time_error_factor * plan.floor;
+    richardson(L0.cdf, L1.cdf, L2.cdf, p, floor_abs, floor_rel, floor_least, cdf_direct, t.cdf, t.cdf_error);
+    richardson(L0.survival, L1.survival, L2.survival, p, floor_abs, floor_rel, floor_least, survival_direct,
+               t.survival, t.survival_error);
     clamp_probabilities(t.cdf, t.cdf_error);
     clamp_probabilities(t.survival, t.survival_error);
     // Densities reach ~10 at most; their integrator floor scales with the steepest slope.
-    richardson(L0.density, L1.density, L2.density, p, 10 * floor_abs, floor_rel, t.density, t.density_error);
+    richardson(L0.density, L1.density, L2.density, p, 10 * floor_abs, floor_rel, floor_least, density_relative,
+               t.density, t.density_error);
     s.max_cdf_error = t.cdf_error.maxCoeff();
     s.max_survival_error = t.survival_error.maxCoeff();
     if (options.moments) {

@@ -49,6 +49,9 @@ struct SolverOptions {
   int max_levels = 5;
   // Compute mean, variance, skewness and excess kurtosis for every w.
   bool moments = true;
+  // Solve the finest of the first min_levels grids on a second thread while the coarser ones
+  // run (false when the caller already runs several solves at once, as a sweep does).
+  bool parallel_levels = true;
   // Wall-time budget in seconds (+inf: none). Refused before any work when the a-priori
   // estimate exceeds it, and before each further grid level when the projection from the
   // levels already solved does (SolveBudgetError, with the estimate in the message).
