@@ -1,5 +1,5 @@
-// Cost growth of one edgelaw grid level (the cdf integration of solver.cpp's solve_level, on one
-// thread): time, steps, right-hand sides, Jacobians, Newton iterations and peak memory as the
+// Cost growth of one edgelaw grid level (the integration of solver.cpp's solve_level: survival,
+// then cdf after the switch; on one thread): time, steps, right-hand sides, Jacobians, Newton iterations and peak memory as the
 // angle grid is refined and as the x range widens. Each configuration runs in its own child
 // process, so its peak RSS (getrusage) is its own. Prints Markdown tables for BENCHMARKS.md.
 #include <sys/resource.h>
@@ -38,11 +38,11 @@ std::string load_average() {
 
 // Terminal data of solver.cpp (escape law of the linearised unstable Ornstein-Uhlenbeck process
 // near the unstable branch p = -sqrt(x)); repeated here because it is internal to the solver.
-double terminal_cdf(double beta, double x, double theta) {
-  if (theta == 0.0) return 1.0;
+double terminal_survival(double beta, double x, double theta) {
+  if (theta == 0.0) return 0.0;
   const double p = std::cos(theta) / std::sin(theta);
   const double z = std::sqrt(beta) * std::pow(x, 0.25) * (p + std::sqrt(x));
-  return 0.5 * std::erfc(-z / std::sqrt(2.0));
+  return 0.5 * std::erfc(z / std::sqrt(2.0));
 }
 
 struct Result {
@@ -76,14 +76,16 @@ Result run_level(int intervals, double x_min) {
   for (double w : req.w) weights.push_back(grid.point_weights(std::isinf(w) ? 0.0 : std::atan2(1.0, w)));
   BackwardProblem problem;
   problem.op = &op;
-  problem.boundary = 0.0;
+  problem.boundary = 1.0;  // the survival first, as in solve_level
+  problem.complement_above = plan.complement_above;
+  problem.left_tail_rate = req.beta / 24.0;
   problem.x_start = plan.x_high;
   problem.x_end = plan.x_low;
   problem.bulk_tolerance = plan.bulk_tolerance_at(level);
   problem.tail_relative = plan.tail_relative_at(level);
   problem.floor = plan.floor;
   problem.initial.resize(n);
-  for (int i = 0; i < n; ++i) problem.initial[i] = terminal_cdf(req.beta, plan.x_high, grid.theta(i));
+  for (int i = 0; i < n; ++i) problem.initial[i] = terminal_survival(req.beta, plan.x_high, grid.theta(i));
   std::vector<double> outputs(req.x.rbegin(), req.x.rend());
   std::vector<double> table(req.w.size() * req.x.size());
   double interp = 0, checksum = 0;

@@ -238,7 +238,7 @@ int main(int argc, char** argv) {
     }
   }
 
-  // edgelaw, the library call behind `edgelaw table` (cdf and survival runs on two threads).
+  // edgelaw, the library call behind `edgelaw table` (finest grid on a second thread).
   std::vector<double> edgelaw_wall(o.edgelaw_targets.size(), NAN), edgelaw_cpu(o.edgelaw_targets.size(), NAN);
   for (std::size_t k = 0; k < o.edgelaw_targets.size(); ++k) {
     SolverOptions so;

@@ -64,7 +64,7 @@ if want growth; then
 fi
 
 if want profile; then
-  echo "### Profile of one level (800 intervals, cdf run)"
+  echo "### Profile of one level (800 intervals, one run: survival, then cdf)"
   echo
   if perf stat -e instructions true >/dev/null 2>&1; then
     perf record -q -o "$scratch/perf.data" -- "$bench/cost_growth_bench" --single 800 >/dev/null 2>&1
@@ -101,7 +101,7 @@ fi
 if want sweep; then
   # The sweep: 64 betas evenly spaced in [1, 4] on the default grid, 2 concurrent betas
   # on the 2 cores; and 8 of them with 1 and with 2 concurrent betas for the parallel efficiency
-  # (each solve already runs its cdf and survival integrations on two threads).
+  # (a lone solve runs its finest grid on a second thread; concurrent betas do not).
   if [ "$quick" = 1 ]; then runs="2:2 2:1"; target=1e-6; else runs="64:2 8:2 8:1"; target=1e-8; fi
   echo "### Sweeps: betas evenly spaced in [1, 4], default grid, target $target"
   echo

@@ -56,7 +56,7 @@ struct CallbackData {
   const KolmogorovOperator* op;
   double boundary;
   double bulk, tail_relative, floor;  // error weights, see BackwardProblem
-  bool floor_follows_largest = false;  // after the switch to the complement, see weight_callback
+  int reference_node = -1;  // after the switch to the complement, see weight_callback
   double scale_rate = 0.0;             // > 0 once the state is G = e^phi F (BackwardProblem::left_tail_rate)
   void* cvode = nullptr;               // for the current x in weight_callback
   std::exception_ptr error;  // exceptions never cross the C callbacks
@@ -74,20 +74,14 @@ struct CallbackData {
   }
 };
 
-constexpr double kBelowLargest = 1e-8;
+// Share of the reference node's relative tolerance given to the nodes beyond it as a floor.
+constexpr double kBelowReference = 1e-2;
 
 int weight_callback(N_Vector u, N_Vector ewt, void* data) {
   auto* d = static_cast<CallbackData*>(data);
   const double* v = N_VGetArrayPointer(u);
   double* e = N_VGetArrayPointer(ewt);
   const sunindextype n = N_VGetLength(u);
-  // After the switch to the cdf, values below kBelowLargest times the largest value's tolerance
-  // get that as their absolute floor. They sit beyond the unstable branch (w < 0), and reach
-  // the rows whose relative accuracy is certified (w >= 0, which in the default table stay above
-  // 1.6e-5 of the largest value wherever they are >= 1e-20) only through paths about to explode.
-  // Without it, the complement 1 - S at the switch, right only to ~1e-16 absolute where the cdf
-  // is far smaller, made CVODE follow roundoff at relative 1e-10: ~3000 extra steps on 800
-  // intervals (floors of 1e-4 to 1e-8 times: 8003 to 8422 steps, same errors).
   // With the scaled state G = e^phi F every absolute tolerance of F is multiplied by e^phi.
   double scale = 1.0;
   if (d->scale_rate > 0) {
@@ -97,11 +91,15 @@ int weight_callback(N_Vector u, N_Vector ewt, void* data) {
   }
   const double bulk = d->bulk * scale;
   double floor = d->floor * scale;
-  if (d->floor_follows_largest) {
-    double largest = 0.0;
-    for (sunindextype i = 0; i < n; ++i) largest = std::max(largest, std::abs(v[i]));
-    floor = std::max(floor, kBelowLargest * std::min(bulk, d->tail_relative * largest));
-  }
+  // After the switch to the cdf: every value gets as floor the smaller of the bulk tolerance
+  // and kBelowReference times the relative tolerance of the reference node (the last with
+  // w >= 0; the cdf decreases toward theta = pi, so every node with relative accuracy to keep
+  // is above it). Nodes beyond it (w < 0) reach those only through paths about to explode,
+  // so their errors arrive attenuated. Without it, the complement 1 - S at the switch, right
+  // only to ~1e-16 absolute where the cdf is far smaller, made CVODE follow roundoff at
+  // relative 1e-10: ~3000 extra steps on 800 intervals.
+  if (d->reference_node >= 0)
+    floor = std::max(floor, std::min(bulk, kBelowReference * d->tail_relative * std::abs(v[d->reference_node])));
   for (sunindextype i = 0; i < n; ++i) {
     const double tol = std::max(std::min(bulk, d->tail_relative * std::abs(v[i])), floor);
     e[i] = 1.0 / tol;
@@ -172,7 +170,7 @@ IntegratorCounters integrate_backward(const BackwardProblem& problem, std::span<
   CvodeMemory mem(check_ptr(CVodeCreate(CV_BDF, raw_context), "CVodeCreate"));
   void* cv = mem.get();
   CallbackData data{problem.op, problem.boundary, problem.bulk_tolerance, problem.tail_relative, problem.floor,
-                    false, 0.0, cv, nullptr};
+                    -1, 0.0, cv, nullptr};
   check(CVodeInit(cv, rhs_callback, problem.x_start, u.get()), "CVodeInit");
   check(CVodeSetUserData(cv, &data), "CVodeSetUserData");
   check(CVodeWFtolerances(cv, weight_callback), "CVodeWFtolerances");
@@ -249,7 +247,7 @@ IntegratorCounters integrate_backward(const BackwardProblem& problem, std::span<
         check(CVodeSetInitStep(cv, 0.0), "CVodeSetInitStep");
         check(CVodeSetStopTime(cv, problem.x_end), "CVodeSetStopTime");
         complemented = true;
-        data.floor_follows_largest = true;
+        data.reference_node = problem.reference_node;
       }
     }
   }

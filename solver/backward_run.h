@@ -33,6 +33,9 @@ struct BackwardProblem {
   // moves the error control from S (tiny in the right tail) to F = 1 - S (tiny in the left).
   // 0 never switches.
   double complement_above = 0.0;
+  // After the switch: the node whose relative accuracy bounds that of all nodes before it
+  // (the last with w >= 0); nodes beyond get a floor from it (weight_callback). -1: none.
+  int reference_node = -1;
   // If > 0, the run carries G = e^phi(x) F after the switch, phi ~ rate * max(0, -x)^3 (capped):
   // with rate = beta / 24 that is the left tail's own decay, log F ~ -(beta/24) |x|^3, so CVODE
   // no longer has to follow a super-exponential decay to relative accuracy step by step.

@@ -1,9 +1,10 @@
 // Certified solve of the spiked edge law: a grid sequence, Richardson extrapolation, error estimates.
 //
 // Method (see kolmogorov.h for the equation): for each grid level (theta intervals N0, 2 N0,
-// 4 N0, ...) two backward integrations from the terminal x down, one for the cdf (value 0 at
-// theta = pi) and one for the survival (value 1 there), each with pure relative error control
-// so that tiny tails keep their digits. Requested w are reached by degree-7 interpolation in
+// 4 N0, ...) one backward integration from the terminal x down: of the survival S (value 1 at
+// theta = pi) while S is small somewhere, then of the cdf F = 1 - S (value 0 there), so that
+// each tail is carried by the quantity that is small in it, under relative error control
+// (BackwardProblem::complement_above, Plan::complement_above). Requested w are reached by degree-7 interpolation in
 // theta, requested x by CVODE's dense output, densities from the difference operator itself,
 // moments by Gauss-Legendre quadrature of the density over every internal step. The last three
 // levels give the observed order p, the extrapolated value and the error estimate
@@ -137,6 +138,8 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
   problem.floor = plan.floor;
   problem.complement_above = plan.complement_above;
   problem.cancel = cancel;
+  // The last node with theta <= pi/2 (w >= 0), whose relative accuracy the cdf must keep.
+  for (int i = 0; i < n && grid.theta(i) <= std::numbers::pi / 2; ++i) problem.reference_node = i;
   problem.left_tail_rate = req.beta / 24.0;  // log F ~ -(beta/24)|x|^3 (design notes, section 1)
   problem.initial.resize(n);
   for (int i = 0; i < n; ++i) problem.initial[i] = terminal_cdf(req.beta, plan.x_high, grid.theta(i), true);
@@ -297,7 +300,8 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
   s.time_tolerance = plan.bulk_tolerance_at(0);
   s.nominal_order = AngleGrid::kOrder;
 
-  s.estimated_seconds = a_priori_seconds(plan, options.min_levels);
+  const bool prefetch_top = options.parallel_levels && options.min_levels >= 2;
+  s.estimated_seconds = a_priori_seconds(plan, options.min_levels, prefetch_top);
   if (s.estimated_seconds > options.max_seconds)
     throw SolveBudgetError("the solve for beta " + seconds_text(req.beta) + " is estimated to take at least " +
                            seconds_text(s.estimated_seconds) + " s (" + std::to_string(options.min_levels) +
@@ -315,7 +319,7 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
       if (result.valid()) result.wait();
     }
   } prefetch;
-  if (options.parallel_levels && options.min_levels >= 2) {
+  if (prefetch_top) {
     prefetch.level = options.min_levels - 1;
     prefetch.result = std::async(std::launch::async, [&, centres_now = centres] {
       const auto level_start = std::chrono::steady_clock::now();
@@ -327,7 +331,12 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
     const int intervals = plan.base_intervals << level;
     if (level > 0 && level != prefetch.level) {
       const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-      const double ahead = projected_seconds(s.level_seconds, level, options.min_levels);
+      double ahead = projected_seconds(s.level_seconds, level, options.min_levels);
+      if (level < prefetch.level) {  // the top level is already running beside this thread
+        const double here = projected_seconds(s.level_seconds, level, prefetch.level);
+        const double top = projected_seconds(s.level_seconds, level, prefetch.level + 1) - here;
+        ahead = std::max(here, top - elapsed);
+      }
       if (elapsed + ahead > options.max_seconds)
         throw SolveBudgetError("the solve for beta " + seconds_text(req.beta) + " would exceed the time budget of " +
                                seconds_text(options.max_seconds) + " s: after " + seconds_text(elapsed) + " s, grid " +

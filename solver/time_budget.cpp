@@ -21,12 +21,14 @@ constexpr double kLevelGrowth = 2.5;
 
 }  // namespace
 
-double a_priori_seconds(const Plan& plan, int levels) {
-  double total = 0;
-  for (int l = 0; l < levels; ++l)
-    total += kSecondsPerNodeStep * plan.base_intervals * (plan.x_high - plan.x_low) * kStepsPerUnitX *
-             std::pow(kLevelGrowth, l);
-  return total;
+double a_priori_seconds(const Plan& plan, int levels, bool top_in_parallel) {
+  double rest = 0, top = 0;
+  for (int l = 0; l < levels; ++l) {
+    const double cost = kSecondsPerNodeStep * plan.base_intervals * (plan.x_high - plan.x_low) * kStepsPerUnitX *
+                        std::pow(kLevelGrowth, l);
+    (l + 1 == levels ? top : rest) += cost;
+  }
+  return top_in_parallel && levels >= 2 ? std::max(top, rest) : top + rest;
 }
 
 // Before level `next`: the projected finish of the levels that must still run (at least this

@@ -10,7 +10,8 @@ namespace edgelaw {
 
 // Low-biased estimate of the first `levels` grid levels, so only requests that surely miss the
 // budget are refused before any work (constants and their measured spread in time_budget.cpp).
-double a_priori_seconds(const Plan& plan, int levels);
+// top_in_parallel: the last of these levels runs beside the others (SolverOptions::parallel_levels).
+double a_priori_seconds(const Plan& plan, int levels, bool top_in_parallel = false);
 
 // Before level `next` (>= 1), given the measured wall times of levels 0..next-1: the time of the
 // levels that must still run (this one, and all up to min_levels - 1).
