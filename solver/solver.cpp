@@ -344,7 +344,11 @@ LawTable solve_law(const LawRequest& req, const SolverOptions& options) {
                                " s more (grid " + std::to_string(intervals / 2) + " took " +
                                seconds_text(s.level_seconds.back()) + " s); no result kept");
     }
-    if (level > 0 && options.moments)
+    // Levels beyond the first min_levels centre their moment sums on the means found so far;
+    // the first ones all use the rough a-priori centres, so that a result never depends on
+    // whether the finest of them ran beside the others (a resumed sweep must reproduce an
+    // uninterrupted one bit for bit: tests/cli_sweep_check.py).
+    if (level >= options.min_levels && options.moments)
       for (int r = 0; r < rows; ++r)
         if (std::isfinite(levels.back().moments[r].mean)) centres[r] = levels.back().moments[r].mean;
     if (level == prefetch.level) {
