@@ -189,11 +189,16 @@ IntegratorCounters integrate_backward(const BackwardProblem& problem, std::span<
   check(CVodeSetJacFn(cv, jacobian_callback), "CVodeSetJacFn");
 
   std::vector<double> full(n + 1), slope(n + 1);
+  std::vector<double> value_scratch(n + 1);
   const DenseOutput dense_output = [&](double x, double* out, double* out_slope) {
-    check(CVodeGetDky(cv, x, 0, dense.get()), "CVodeGetDky");
     const double* v = N_VGetArrayPointer(dense.get());
-    std::copy(v, v + n, out);
-    out[n] = data.boundary;
+    // The value is needed for itself, or to unscale the slope of G = e^phi F.
+    if (!out && data.scale_rate > 0) out = value_scratch.data();
+    if (out) {
+      check(CVodeGetDky(cv, x, 0, dense.get()), "CVodeGetDky");
+      std::copy(v, v + n, out);
+      out[n] = data.boundary;
+    }
     if (out_slope) {
       check(CVodeGetDky(cv, x, 1, dense.get()), "CVodeGetDky");
       std::copy(v, v + n, out_slope);

@@ -106,7 +106,7 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
   out.survival_direct.assign(cols, 1);
 
   std::vector<std::array<double, 5>> sums(rows, std::array<double, 5>{});
-  std::vector<double> full(n + 1), slope(n + 1, 0.0);
+  std::vector<double> slope(n + 1, 0.0);
   // The run carries the survival S from the terminal x down to where S is large everywhere, then
   // the cdf F = 1 - S (BackwardProblem::complement_above): the density is dF/dx = -dS/dx before.
   const StepObserver accumulate = [&](double x_new, double x_old, const DenseOutput& dense, bool complemented) {
@@ -114,7 +114,7 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
     const double half = 0.5 * (x_old - x_new), mid = 0.5 * (x_old + x_new);
     for (int q = 0; q < kQuadratureNodes; ++q) {
       const double x = mid + half * kGaussNodes[q], wq = sign * half * kGaussWeights[q];
-      dense(x, full.data(), slope.data());
+      dense(x, nullptr, slope.data());
       for (int r = 0; r < rows; ++r) {
         const double f = interpolate(weights[r], slope.data()) * wq;
         const double d = x - centres[r];
