@@ -9,15 +9,16 @@ namespace edgelaw {
 namespace {
 // A-priori cost of level l: kSecondsPerNodeStep * N_l * (x_high - x_low) *
 // kStepsPerUnitX * kLevelGrowth^l, i.e. per level the work grows like N (doubled) times the
-// steps (measured 1.1 to 2.5x per level). Calibrated on this machine (Debian 12, 2 cores,
-// BENCHMARKS.md) from the default beta = 2 table, beta = 2 at w = -4 and beta = 1 at w = -8:
-// 2.6e-7 to 3.8e-7 s per node and step, 230 to 330 steps per unit x on the coarsest level, level
-// ratios 1.9 to 4.2. The constants are the low ends, so the a-priori estimate is low by a factor
-// 1.7 (default table: 2.6 s for 4.5 s) to 4 (w = -12: 7.8 s for 33 s) and refuses only requests
-// that surely miss the budget; the projection from measured levels (below) does the rest.
-constexpr double kSecondsPerNodeStep = 2.6e-7;
-constexpr double kStepsPerUnitX = 200;
-constexpr double kLevelGrowth = 2.5;
+// steps (measured 1.1 to 2.1x per level). Calibrated on this machine (Debian 12, 2 cores, quiet,
+// 2026-12-02, one run per grid, moments off) from the default tables for beta = 1, 2, 4,
+// beta = 2 at w = -4 and beta = 1 at w = -8: 2.1e-7 to 3.1e-7 s per node and step, 110 to 170
+// steps per unit x on the coarsest level, level time ratios 2.2 to 3.5. The constants are the
+// low ends, so the a-priori estimate is low by a factor ~2 (default beta = 2 table: 0.57 s for
+// 1.2 s wall with the finest grid beside the others, 0.94 s for 1.9 s in turn) and refuses
+// only requests that surely miss the budget; the projection from measured levels does the rest.
+constexpr double kSecondsPerNodeStep = 2.1e-7;
+constexpr double kStepsPerUnitX = 110;
+constexpr double kLevelGrowth = 2.2;
 
 }  // namespace
 
@@ -33,8 +34,8 @@ double a_priori_seconds(const Plan& plan, int levels, bool top_in_parallel) {
 
 // Before level `next`: the projected finish of the levels that must still run (at least this
 // one; all up to min_levels) from the measured times, each level costing the last one times the
-// measured growth (until two levels exist, kLevelGrowth: the measured first ratios were 1.9, 2.4
-// and 4.2, so this projection can be low by up to 1.7x per level).
+// measured growth (until two levels exist, kLevelGrowth: the measured first ratios were 2.2 to
+// 2.7, and later ones up to 3.5, so this projection can be low by up to 1.6x per level).
 double projected_seconds(std::span<const double> done, int next, int min_levels) {
   const double last = done.back();
   double growth = kLevelGrowth;
