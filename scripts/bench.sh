@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Build and run the benchmarks; prints the Markdown for BENCHMARKS.md on stdout.
 #
-#   bash scripts/bench.sh            # everything, about 20 minutes on 2 busy cores
+#   bash scripts/bench.sh            # everything, about 12 minutes on 2 quiet cores
 #   bash scripts/bench.sh --quick    # smaller versions of every part, about 3 minutes
 #   bash scripts/bench.sh --only fredholm,montecarlo,growth,profile,sweep,table
 #
