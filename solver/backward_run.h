@@ -46,9 +46,9 @@ struct BackwardProblem {
 };
 
 // The dense-output state at any x of the current step: fills the full nodal vector (N+1 values)
-// if `full` is not null and, if slope is not null, its x-derivative (the derivative of CVODE's interpolating
-// polynomial, which unlike the right-hand side at the interpolated state does not amplify the
-// interpolation error of stiff components).
+// if `full` is not null and, if slope is not null, its x-derivative (the derivative of CVODE's
+// interpolating polynomial, which unlike the right-hand side at the interpolated state does not
+// amplify the interpolation error of stiff components).
 using DenseOutput = std::function<void(double x, double* full, double* slope)>;
 // Called once per output point (outputs in decreasing order) with the nodal vector and slope;
 // `complemented` says whether they are of 1 - (the terminal quantity), see complement_above.

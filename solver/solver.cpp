@@ -4,8 +4,8 @@
 // 4 N0, ...) one backward integration from the terminal x down: of the survival S (value 1 at
 // theta = pi) while S is small somewhere, then of the cdf F = 1 - S (value 0 there), so that
 // each tail is carried by the quantity that is small in it, under relative error control
-// (BackwardProblem::complement_above, Plan::complement_above). Requested w are reached by degree-7 interpolation in
-// theta, requested x by CVODE's dense output, densities from the difference operator itself,
+// (BackwardProblem::complement_above, Plan::complement_above). Requested w are reached by
+// degree-7 interpolation in theta, requested x by CVODE's dense output, densities from the difference operator itself,
 // moments by Gauss-Legendre quadrature of the density over every internal step. The last three
 // levels give the observed order p, the extrapolated value and the error estimate
 //     E = max(|d_fine|, |d_coarse| / 2^p) / (2^p - 1),
@@ -60,15 +60,16 @@ constexpr std::array<double, kQuadratureNodes> kGaussWeights = {5.0 / 9.0, 8.0 /
 
 double angle_of(double w) { return std::isinf(w) ? 0.0 : std::atan2(1.0, w); }
 
-double terminal_cdf(double beta, double x, double theta, bool survival) {
+// The survival at the terminal x (the run starts with it, solve_level).
+double terminal_survival(double beta, double x, double theta) {
   // Near the unstable branch p = -sqrt(x) the Riccati diffusion is an unstable Ornstein-Uhlenbeck
-  // process with rate 2 sqrt(x) and noise 2/sqrt(beta): escape upward has probability
-  // Phi(sqrt(beta) x^{1/4} (p + sqrt(x))). Far from the branch this is 0 or 1 up to terms far
-  // below double precision once x is as large as the plan makes it.
-  if (theta == 0.0) return survival ? 0.0 : 1.0;
+  // process with rate 2 sqrt(x) and noise 2/sqrt(beta): escape upward (no explosion) has
+  // probability Phi(sqrt(beta) x^{1/4} (p + sqrt(x))). Far from the branch this is 0 or 1 up to
+  // terms far below double precision once x is as large as the plan makes it.
+  if (theta == 0.0) return 0.0;
   const double p = std::cos(theta) / std::sin(theta);
   const double z = std::sqrt(beta) * std::pow(x, 0.25) * (p + std::sqrt(x));
-  return 0.5 * std::erfc((survival ? z : -z) / std::numbers::sqrt2);
+  return 0.5 * std::erfc(z / std::numbers::sqrt2);
 }
 
 Moments central_moments(const std::array<double, 5>& m, double centre) {
@@ -142,7 +143,7 @@ LevelResult solve_level(const LawRequest& req, const Plan& plan, int level, cons
   for (int i = 0; i < n && grid.theta(i) <= std::numbers::pi / 2; ++i) problem.reference_node = i;
   problem.left_tail_rate = req.beta / 24.0;  // log F ~ -(beta/24)|x|^3 (design notes, section 1)
   problem.initial.resize(n);
-  for (int i = 0; i < n; ++i) problem.initial[i] = terminal_cdf(req.beta, plan.x_high, grid.theta(i), true);
+  for (int i = 0; i < n; ++i) problem.initial[i] = terminal_survival(req.beta, plan.x_high, grid.theta(i));
   const OutputObserver record = [&](int index, double, const double* nodal, const double* nodal_slope,
                                     bool complemented) {
     const int col = cols - 1 - index;
