@@ -11,6 +11,7 @@
 #include <cstdio>
 #include <cstdlib>
 #include <numbers>
+#include <algorithm>
 #include <ctime>
 #include <sstream>
 #include <string>
@@ -80,7 +81,7 @@ Result run_level(int intervals, double x_min) {
   problem.boundary = 1.0;  // the survival first, as in solve_level
   problem.complement_above = plan.complement_above;
   problem.left_tail_rate = req.beta / 24.0;
-  for (int i = 0; i < n && grid.theta(i) <= std::numbers::pi / 2; ++i) problem.reference_node = i;
+  problem.reference_node = std::min(grid.last_node_at_most(std::numbers::pi / 2), n - 1);
   problem.x_start = plan.x_high;
   problem.x_end = plan.x_low;
   problem.bulk_tolerance = plan.bulk_tolerance_at(level);

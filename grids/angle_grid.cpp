@@ -97,6 +97,11 @@ void AngleGrid::build_stencils() {
   }
 }
 
+int AngleGrid::last_node_at_most(double theta) const {
+  if (!(theta >= 0.0 && theta <= std::numbers::pi)) throw std::invalid_argument("angle outside [0, pi]");
+  return static_cast<int>(std::upper_bound(theta_.begin(), theta_.end(), theta) - theta_.begin()) - 1;
+}
+
 PointWeights AngleGrid::point_weights(double theta) const {
   const int n = intervals();
   if (!(theta >= 0.0 && theta <= std::numbers::pi)) throw std::invalid_argument("angle outside [0, pi]");

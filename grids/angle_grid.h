@@ -51,6 +51,8 @@ class AngleGrid {
 
   // Degree-7 interpolation through the 8 nodes nearest to theta (theta in [0, pi]).
   PointWeights point_weights(double theta) const;
+  // The last node with angle <= theta (theta in [0, pi]).
+  int last_node_at_most(double theta) const;
 
  private:
   void build_stencils();

@@ -3,6 +3,7 @@
 
 #include <cmath>
 #include <numbers>
+#include <stdexcept>
 
 #include "grids/angle_grid.h"
 
@@ -60,6 +61,17 @@ TEST(AngleGridStencils, SixthOrderAccurate) {
   EXPECT_LT(coarse.minus / fine.minus, 90.0) << coarse.minus << " -> " << fine.minus;
   EXPECT_GT(coarse.second / fine.second, 48.0) << coarse.second << " -> " << fine.second;
   EXPECT_LT(coarse.second / fine.second, 90.0) << coarse.second << " -> " << fine.second;
+}
+
+// The node search behind the solver's reference node (the last with w >= 0): a node exactly at
+// theta counts, the ends are found, and an angle outside [0, pi] is refused.
+TEST(AngleGridNodes, LastNodeAtMost) {
+  const AngleGrid g(8);  // uniform: node i at i pi / 8
+  EXPECT_EQ(g.last_node_at_most(std::numbers::pi / 2), 4);
+  EXPECT_EQ(g.last_node_at_most(std::numbers::pi / 2 - 1e-9), 3);
+  EXPECT_EQ(g.last_node_at_most(0.0), 0);
+  EXPECT_EQ(g.last_node_at_most(std::numbers::pi), 8);
+  EXPECT_THROW(g.last_node_at_most(-0.1), std::invalid_argument);
 }
 
 }  // namespace
